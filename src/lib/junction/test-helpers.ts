@@ -1,0 +1,46 @@
+/**
+ * Assertion helpers shared by the junction specs (not exported from index.ts).
+ */
+import { expect } from 'vitest';
+
+/** |a − b| / max(|a|, |b|), with 0 when both are exactly 0. */
+export function relativeDifference(a: number, b: number): number {
+	if (a === b) return 0;
+	return Math.abs(a - b) / Math.max(Math.abs(a), Math.abs(b));
+}
+
+/** Assert |actual − expected| ≤ rel·max(|actual|, |expected|), with a readable message. */
+export function expectRelClose(actual: number, expected: number, rel: number, label = ''): void {
+	const d = relativeDifference(actual, expected);
+	expect(
+		d <= rel,
+		`${label} actual ${actual} vs expected ${expected}: relative difference ${d.toExponential(3)} > ${rel}`
+	).toBe(true);
+}
+
+/** Assert |actual − expected| ≤ abs. */
+export function expectAbsClose(actual: number, expected: number, abs: number, label = ''): void {
+	const d = Math.abs(actual - expected);
+	expect(d <= abs, `${label} actual ${actual} vs expected ${expected}: |difference| ${d.toExponential(3)} > ${abs}`).toBe(
+		true
+	);
+}
+
+/** Deterministic pseudo-random numbers (mulberry32) so noisy test data is reproducible. */
+export function seededRandom(seed: number): () => number {
+	let a = seed >>> 0;
+	return () => {
+		a = (a + 0x6d2b79f5) >>> 0;
+		let t = a;
+		t = Math.imul(t ^ (t >>> 15), t | 1);
+		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+	};
+}
+
+/** Standard normal deviate from a uniform source (Box–Muller). */
+export function gaussian(rand: () => number): number {
+	const u = Math.max(rand(), 1e-300);
+	const v = rand();
+	return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
+}

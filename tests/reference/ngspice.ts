@@ -1,0 +1,86 @@
+/**
+ * Run ngspice (Debian package, /usr/bin/ngspice) in batch mode from tests and
+ * read back vector values printed with full precision.
+ *
+ * Facts about ngspice 39 this helper relies on:
+ *  - batch mode exits non-zero unless the control block ends with `quit 0`;
+ *  - `set numdgt=17` makes `print` write doubles with enough digits to compare at 1e-9;
+ *  - `.option gmin=0` removes the 1e-12 S conductance it otherwise adds across junctions.
+ */
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+export const NGSPICE = '/usr/bin/ngspice';
+
+export interface NgspiceRun {
+	/** Netlist lines (elements, .model cards, .temp/.options) without title, control block or .end. */
+	netlist: string;
+	/** Expressions to print after the operating point, e.g. `@d1[id]` or `v(a)`. */
+	prints: string[];
+	/** Extra `.option` text; defaults to `gmin=0 reltol=1e-8`. */
+	options?: string;
+}
+
+/** Values keyed by the printed expression, lower-cased as ngspice prints them. */
+export type NgspiceValues = Map<string, number>;
+
+/**
+ * Write a deck to a temporary folder, run `ngspice -b -n deck.cir`, and parse
+ * the `name = value` lines it prints. Throws with ngspice's output on failure
+ * or when a requested expression is missing.
+ */
+export function runNgspiceOp(run: NgspiceRun): NgspiceValues {
+	const dir = mkdtempSync(join(tmpdir(), 'junction-ngspice-'));
+	try {
+		const deck = [
+			'* junction engine reference deck',
+			run.netlist,
+			`.option ${run.options ?? 'gmin=0 reltol=1e-8'}`,
+			'.control',
+			'set numdgt=17',
+			'op',
+			...run.prints.map((p) => `print ${p}`),
+			'quit 0',
+			'.endc',
+			'.end',
+			''
+		].join('\n');
+		const file = join(dir, 'deck.cir');
+		writeFileSync(file, deck);
+		let out: string;
+		try {
+			out = execFileSync(NGSPICE, ['-b', '-n', 'deck.cir'], {
+				cwd: dir,
+				encoding: 'utf8',
+				maxBuffer: 64 * 1024 * 1024,
+				stdio: ['ignore', 'pipe', 'pipe']
+			});
+		} catch (e) {
+			const err = e as { stdout?: string; stderr?: string; message: string };
+			throw new Error(`ngspice failed: ${err.message}\n${err.stdout ?? ''}\n${err.stderr ?? ''}`);
+		}
+		const values: NgspiceValues = new Map();
+		for (const line of out.split('\n')) {
+			const m = /^\s*(\S+)\s+=\s+([-+0-9.eE]+)\s*$/.exec(line);
+			if (m) values.set(m[1].toLowerCase(), Number(m[2]));
+		}
+		for (const p of run.prints) {
+			if (!values.has(p.toLowerCase())) throw new Error(`ngspice did not print ${p}\n${out.slice(0, 4000)}`);
+		}
+		return values;
+	} finally {
+		rmSync(dir, { recursive: true, force: true });
+	}
+}
+
+/** True when the ngspice binary is present (tests assume it; this gives a clear failure message). */
+export function ngspiceAvailable(): boolean {
+	try {
+		execFileSync(NGSPICE, ['--version'], { stdio: 'ignore' });
+		return true;
+	} catch {
+		return false;
+	}
+}

@@ -1,0 +1,133 @@
+#!/usr/bin/env bash
+# Shared set-up for `npm start` and `npm test`: Debian packages, npm dependencies,
+# a PostgreSQL cluster inside the project on loopback, migrations, the mail catcher.
+# Every step is idempotent, so running it twice is harmless.
+set -euo pipefail
+
+ROOT=$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)
+DATA="$ROOT/.data"
+PGBIN=/usr/lib/postgresql/15/bin
+mkdir -p "$DATA"
+
+log() { printf '\033[2m[junctionary]\033[0m %s\n' "$*"; }
+
+as_root() { if [ "$(id -u)" -eq 0 ]; then "$@"; else sudo "$@"; fi; }
+
+# Install the Debian packages that are missing (postgresql always; more for tests).
+ensure_debian_packages() {
+	local missing=() pkg
+	for pkg in "$@"; do
+		dpkg-query -W -f='${Status}' "$pkg" 2>/dev/null | grep -q 'install ok installed' || missing+=("$pkg")
+	done
+	[ ${#missing[@]} -eq 0 ] && return 0
+	log "installing Debian packages: ${missing[*]}"
+	as_root apt-get update -qq
+	DEBIAN_FRONTEND=noninteractive as_root apt-get install -y -qq --no-install-recommends "${missing[@]}" >/dev/null
+}
+
+ensure_node_modules() {
+	if [ ! -d "$ROOT/node_modules" ] || [ "$ROOT/package-lock.json" -nt "$ROOT/node_modules/.package-lock.json" ]; then
+		log "installing npm dependencies (npm ci)"
+		(cd "$ROOT" && npm ci --no-audit --no-fund --loglevel=error)
+	fi
+	(cd "$ROOT" && npx svelte-kit sync >/dev/null)
+}
+
+# AUTH_SECRET is made once per clone and kept in the git-ignored .env.
+ensure_secret() {
+	local envfile="$ROOT/.env"
+	if [ ! -f "$envfile" ] || ! grep -q '^AUTH_SECRET=' "$envfile"; then
+		log "generating AUTH_SECRET into .env"
+		echo "AUTH_SECRET=$(node -e "console.log(require('crypto').randomBytes(32).toString('base64url'))")" >>"$envfile"
+	fi
+	AUTH_SECRET=$(grep '^AUTH_SECRET=' "$envfile" | tail -n1 | cut -d= -f2-)
+	export AUTH_SECRET
+}
+
+# PostgreSQL refuses to run as root. When we are root, run its tools as the postgres
+# system user, keeping the capability to read folders that are not world-traversable.
+as_pg() {
+	if [ "$(id -u)" -eq 0 ]; then
+		setpriv --reuid=postgres --regid=postgres --init-groups \
+			--inh-caps=+dac_read_search --ambient-caps=+dac_read_search "$@"
+	else
+		"$@"
+	fi
+}
+
+# start_postgres NAME PORT: a cluster in .data/NAME listening on 127.0.0.1:PORT.
+start_postgres() {
+	local name=$1 port=$2
+	PGDATA_DIR="$DATA/$name"
+	local sock="$DATA/sock-$name"
+	# Unix socket paths are limited to 107 bytes; fall back to /tmp for deep clones.
+	if [ ${#sock} -gt 80 ]; then sock="/tmp/junctionary-sock-$port"; fi
+	mkdir -p "$PGDATA_DIR" "$sock"
+	if [ "$(id -u)" -eq 0 ]; then chown postgres:postgres "$PGDATA_DIR" "$sock"; chmod 700 "$PGDATA_DIR"; fi
+	if [ ! -s "$PGDATA_DIR/PG_VERSION" ]; then
+		log "creating PostgreSQL cluster in ${PGDATA_DIR#$ROOT/}"
+		as_pg "$PGBIN/initdb" -D "$PGDATA_DIR" -U junctionary --auth=trust -E UTF8 --locale=C.UTF-8 >/dev/null
+	fi
+	if as_pg "$PGBIN/pg_ctl" -D "$PGDATA_DIR" status >/dev/null 2>&1; then
+		log "PostgreSQL already running on 127.0.0.1:$port"
+		PG_STARTED_HERE=0
+	else
+		log "starting PostgreSQL on 127.0.0.1:$port"
+		touch "$DATA/$name.log"; [ "$(id -u)" -eq 0 ] && chown postgres:postgres "$DATA/$name.log"
+		as_pg "$PGBIN/pg_ctl" -D "$PGDATA_DIR" -l "$DATA/$name.log" -w -t 60 \
+			-o "-p $port -k $sock -c listen_addresses=127.0.0.1 -c max_connections=300" start >/dev/null
+		PG_STARTED_HERE=1
+	fi
+	export PG_STARTED_HERE PGDATA_DIR
+}
+
+stop_postgres() {
+	local dir=$1
+	if [ -s "$dir/PG_VERSION" ] && as_pg "$PGBIN/pg_ctl" -D "$dir" status >/dev/null 2>&1; then
+		log "stopping PostgreSQL (${dir#$ROOT/})"
+		as_pg "$PGBIN/pg_ctl" -D "$dir" -m fast -w stop >/dev/null || true
+	fi
+}
+
+# ensure_database PORT DBNAME [fresh]: create it (dropping it first when asked).
+ensure_database() {
+	local port=$1 db=$2 fresh=${3:-}
+	local psql=(psql -X -q -h 127.0.0.1 -p "$port" -U junctionary -d postgres -v ON_ERROR_STOP=1)
+	if [ "$fresh" = fresh ]; then "${psql[@]}" -c "DROP DATABASE IF EXISTS \"$db\" WITH (FORCE)"; fi
+	if ! "${psql[@]}" -tAc "SELECT 1 FROM pg_database WHERE datname='$db'" | grep -q 1; then
+		log "creating database $db"
+		"${psql[@]}" -c "CREATE DATABASE \"$db\""
+	fi
+}
+
+migrate() { (cd "$ROOT" && npx tsx scripts/migrate.ts); }
+
+# start_mail_catcher SMTP_PORT HTTP_PORT: the local catcher, in the background.
+start_mail_catcher() {
+	local smtp=$1 http=$2
+	if curl -fsS "http://127.0.0.1:$http/messages" >/dev/null 2>&1; then
+		log "mail catcher already running (SMTP 127.0.0.1:$smtp)"
+		CATCHER_PID=
+		return
+	fi
+	(cd "$ROOT" && MAIL_SMTP_PORT=$smtp MAIL_HTTP_PORT=$http exec npx tsx scripts/mail-catcher.ts) \
+		>"$DATA/mail-catcher-$smtp.log" 2>&1 &
+	CATCHER_PID=$!
+	local i
+	for i in $(seq 1 100); do
+		curl -fsS "http://127.0.0.1:$http/messages" >/dev/null 2>&1 && break
+		sleep 0.1
+	done
+	log "mail catcher on SMTP 127.0.0.1:$smtp (messages at http://127.0.0.1:$http)"
+}
+
+# wait_for_http URL: until the server answers (60 s at most).
+wait_for_http() {
+	local i
+	for i in $(seq 1 600); do
+		curl -fsS "$1" >/dev/null 2>&1 && return 0
+		sleep 0.1
+	done
+	echo "gave up waiting for $1" >&2
+	return 1
+}

@@ -1,0 +1,28 @@
+// See https://svelte.dev/docs/kit/types#app.d.ts
+import type { Role } from '$lib/permissions';
+
+declare global {
+	namespace App {
+		interface Error {
+			message: string;
+			code?: string;
+			issues?: { path?: string; row?: number; column?: string; message: string }[];
+		}
+		interface User {
+			id: string;
+			email: string;
+			name: string;
+			roles: Role[];
+		}
+		interface Locals {
+			user: User | null;
+			/** How the person was identified: browser session or API token. */
+			via: 'session' | 'token' | null;
+		}
+		// interface PageData {}
+		// interface PageState {}
+		// interface Platform {}
+	}
+}
+
+export {};

@@ -1,0 +1,87 @@
+import { redirect, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { authHandle, SESSION_COOKIES } from '$lib/server/auth';
+import { apiError, isDatabaseDown } from '$lib/server/api';
+import { client } from '$lib/server/db';
+import { startOutboxWorker, stopOutboxWorker } from '$lib/server/mail';
+import * as people from '$lib/server/people';
+import * as tokens from '$lib/server/tokens';
+
+export const init: ServerInit = async () => {
+	if (process.env.OUTBOX_WORKER !== '0') startOutboxWorker();
+	// node build keeps running while the pool is open: close it on shutdown.
+	process.on('sveltekit:shutdown', async () => {
+		stopOutboxWorker();
+		await client.end({ timeout: 5 });
+	});
+};
+
+/** Pages anyone may open; everything else needs sign-in. */
+function isPublic(path: string): boolean {
+	return (
+		path === '/signin' ||
+		path.startsWith('/signin/') ||
+		path.startsWith('/auth/') ||
+		path === '/api/v1/health' ||
+		(process.env.DEV_MAILBOX === '1' && path.startsWith('/dev/mailbox'))
+	);
+}
+
+/** Session cookie or bearer token → locals.user (with roles), once per request. */
+const identify: Handle = async ({ event, resolve }) => {
+	event.locals.user = null;
+	event.locals.via = null;
+	const bearer = event.request.headers.get('authorization')?.match(/^Bearer\s+(\S+)$/i)?.[1];
+	try {
+		if (bearer) {
+			event.locals.user = await tokens.resolve(bearer);
+			event.locals.via = event.locals.user ? 'token' : null;
+		} else {
+			const cookie = SESSION_COOKIES.map((n) => event.cookies.get(n)).find(Boolean);
+			if (cookie) {
+				event.locals.user = await people.findBySessionToken(cookie);
+				event.locals.via = event.locals.user ? 'session' : null;
+			}
+		}
+	} catch (e) {
+		if (isDatabaseDown(e) && !isPublic(event.url.pathname)) {
+			return apiError(503, 'The database is unavailable; try again shortly.');
+		}
+		if (!isDatabaseDown(e)) throw e;
+	}
+	return resolve(event);
+};
+
+/** The first gate: anonymous callers never reach a non-public route. Routes check roles. */
+const gate: Handle = async ({ event, resolve }) => {
+	const path = event.url.pathname;
+	if (!event.locals.user && !isPublic(path)) {
+		if (path.startsWith('/api/')) return apiError(401, 'Sign in or send an API token (Authorization: Bearer …).');
+		if (path.startsWith('/dev/mailbox')) return apiError(404, 'Not found.');
+		redirect(303, `/signin?next=${encodeURIComponent(path + event.url.search)}`);
+	}
+	return resolve(event);
+};
+
+const securityHeaders: Handle = async ({ event, resolve }) => {
+	let response = await resolve(event);
+	// Redirects made with Response.redirect (Auth.js) have immutable headers: copy them.
+	try {
+		response.headers.set('x-content-type-options', 'nosniff');
+	} catch {
+		response = new Response(response.body, response);
+		response.headers.set('x-content-type-options', 'nosniff');
+	}
+	response.headers.set('referrer-policy', 'same-origin');
+	response.headers.set('x-frame-options', 'DENY');
+	response.headers.set('permissions-policy', 'camera=(), microphone=(), geolocation=()');
+	return response;
+};
+
+export const handle = sequence(securityHeaders, authHandle, identify, gate);
+
+export const handleError: HandleServerError = ({ error, event, status, message }) => {
+	if (isDatabaseDown(error)) return { message: 'The database is unavailable; try again shortly.', code: 'unavailable' };
+	if (status >= 500) console.error(event.url.pathname, error);
+	return { message, code: status === 404 ? 'not_found' : 'internal' };
+};

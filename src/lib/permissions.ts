@@ -1,0 +1,56 @@
+/**
+ * Who may do what: one pure function used by the screens (to hide what a person cannot
+ * do) and by the server (to refuse it). Roles add up; nobody's role is implied by another.
+ */
+export const ROLES = ['designer', 'librarian', 'lead', 'admin'] as const;
+export type Role = (typeof ROLES)[number];
+
+export type Actor = { id: string; roles: readonly Role[] } | null;
+
+export const ACTIONS = [
+	'catalogue:read',
+	'catalogue:write',
+	'rank:use',
+	'project:read',
+	'project:create',
+	'shortlist:edit',
+	'review:submit',
+	'review:decide',
+	'people:manage',
+	'tokens:own'
+] as const;
+export type Action = (typeof ACTIONS)[number];
+
+/** The roles that grant each action; an empty list means any signed-in person. */
+const GRANTS: Record<Action, readonly Role[] | 'any-role'> = {
+	'catalogue:read': 'any-role',
+	'catalogue:write': ['librarian'],
+	'rank:use': 'any-role',
+	'project:read': 'any-role',
+	'project:create': ['designer'],
+	'shortlist:edit': ['designer'],
+	'review:submit': ['designer'],
+	'review:decide': ['lead'],
+	'people:manage': ['admin'],
+	'tokens:own': 'any-role'
+};
+
+/** Facts about the record that narrow a decision (only reviews need them so far). */
+export type ReviewResource = { leadId: string | null; submittedBy: string | null };
+
+export function can(actor: Actor, action: Action, resource?: ReviewResource): boolean {
+	if (!actor || actor.roles.length === 0) return false;
+	const grant = GRANTS[action];
+	const allowed = grant === 'any-role' || grant.some((r) => actor.roles.includes(r));
+	if (!allowed) return false;
+	if (action === 'review:decide' && resource) {
+		// A named lead decides alone; nobody decides on their own submission.
+		if (resource.leadId !== null && resource.leadId !== actor.id) return false;
+		if (resource.submittedBy === actor.id) return false;
+	}
+	return true;
+}
+
+export function isRole(value: string): value is Role {
+	return (ROLES as readonly string[]).includes(value);
+}

@@ -1,0 +1,60 @@
+import { isHttpError, json, type RequestEvent, type RequestHandler } from '@sveltejs/kit';
+import { z, ZodError } from 'zod';
+import { STATUS_CODE, type Issue } from './http-error';
+
+/** The API's one error shape: { error: { code, message, issues? } }. */
+export function apiError(status: number, message: string, issues?: Issue[]) {
+	return json(
+		{ error: { code: STATUS_CODE[status] ?? 'error', message, ...(issues?.length ? { issues } : {}) } },
+		{ status }
+	);
+}
+
+export function zodIssues(e: ZodError): Issue[] {
+	return e.issues.map((i) => ({ path: i.path.join('.'), message: i.message }));
+}
+
+/** Known failures a domain module throws; the wrapper turns them into JSON errors. */
+export class DomainError extends Error {
+	constructor(
+		public status: 400 | 403 | 404 | 409 | 413 | 422 | 503,
+		message: string,
+		public issues?: Issue[]
+	) {
+		super(message);
+	}
+}
+
+/**
+ * Wraps a +server.ts handler: every failure leaves as the JSON error shape, never as an
+ * HTML page or a stack trace.
+ */
+export function endpoint(handler: (event: RequestEvent) => Promise<Response> | Response): RequestHandler {
+	return async (event) => {
+		try {
+			return await handler(event);
+		} catch (e) {
+			if (isHttpError(e)) return apiError(e.status, e.body.message, e.body.issues);
+			if (e instanceof ZodError) return apiError(400, 'The request does not match the expected shape.', zodIssues(e));
+			if (e instanceof DomainError) return apiError(e.status, e.message, e.issues);
+			if (isDatabaseDown(e)) return apiError(503, 'The database is unavailable; try again shortly.');
+			throw e;
+		}
+	};
+}
+
+export function isDatabaseDown(e: unknown): boolean {
+	const code = (e as { code?: string })?.code;
+	return code === 'ECONNREFUSED' || code === 'CONNECTION_CLOSED' || code === 'CONNECT_TIMEOUT' || code === '57P01' || code === '57P03';
+}
+
+/** Reads a JSON body and validates it; malformed JSON is a 400 with a plain message. */
+export async function readJson<T extends z.ZodType>(event: RequestEvent, schema: T): Promise<z.infer<T>> {
+	let body: unknown;
+	try {
+		body = await event.request.json();
+	} catch {
+		throw new DomainError(400, 'The body is not valid JSON.');
+	}
+	return schema.parse(body);
+}

@@ -1,0 +1,192 @@
+import {
+	serial,
+	boolean,
+	customType,
+	doublePrecision,
+	index,
+	integer,
+	jsonb,
+	pgTable,
+	text,
+	timestamp,
+	uniqueIndex
+} from 'drizzle-orm/pg-core';
+import { users } from './auth';
+import { timestamps } from './columns';
+
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({
+	dataType: () => 'bytea'
+});
+
+export const JUNCTION_KINDS = ['diode', 'schottky', 'bjt-be', 'bjt-diode', 'jfet-gate', 'led'] as const;
+export type JunctionKind = (typeof JUNCTION_KINDS)[number];
+
+/** Lifecycle in our own words: fine to pick, keep for existing boards only, gone. */
+export const LIFECYCLES = ['in-use', 'not-for-new', 'retired'] as const;
+export type Lifecycle = (typeof LIFECYCLES)[number];
+
+export const MATERIALS = ['silicon', 'metal-semiconductor', 'germanium', 'wide-gap'] as const;
+export type Material = (typeof MATERIALS)[number];
+
+/** A SPICE-named model as stored (TNOM in °C). Optional keys absent when unknown. */
+export type StoredModel = {
+	IS: number;
+	N: number;
+	RS?: number;
+	RSH?: number;
+	ISR?: number;
+	NR?: number;
+	BV?: number;
+	IBV?: number;
+	EG?: number;
+	XTI?: number;
+	TNOM?: number;
+	CJO?: number;
+	VJ?: number;
+	M?: number;
+	FC?: number;
+};
+
+export const parts = pgTable(
+	'parts',
+	{
+		id: serial('id').primaryKey(),
+		partNumber: text('part_number').notNull(),
+		maker: text('maker').notNull(),
+		kind: text('kind').$type<JunctionKind>().notNull(),
+		/** Which pins form the junction, e.g. anode "1", cathode "2" (or "B"/"E" for bjt-be). */
+		anodePins: text('anode_pins').notNull().default(''),
+		cathodePins: text('cathode_pins').notNull().default(''),
+		package: text('package').notNull().default(''),
+		/** Glass, clear or LED packages let ambient light in: photocurrent beyond the dark leakage. */
+		admitsLight: boolean('admits_light').notNull().default(false),
+		material: text('material').$type<Material>().notNull().default('silicon'),
+		ratedReverseV: doublePrecision('rated_reverse_v'),
+		ratedForwardA: doublePrecision('rated_forward_a'),
+		ratedJunctionC: doublePrecision('rated_junction_c'),
+		/** Shunt leakage multiplies by this per 10 K (2 is common practice). */
+		shuntFactorPer10K: doublePrecision('shunt_factor_per_10k').notNull().default(2),
+		tags: text('tags').array().notNull().default([]),
+		lifecycle: text('lifecycle').$type<Lifecycle>().notNull().default('in-use'),
+		notes: text('notes').notNull().default(''),
+		/** A model given directly (SPICE card, datasheet) before or instead of measurements. */
+		givenModel: jsonb('given_model').$type<StoredModel>(),
+		givenModelSource: text('given_model_source'),
+		/** Bumped whenever anything that feeds a prediction changes. */
+		modelVersion: integer('model_version').notNull().default(1),
+		createdBy: text('created_by').references(() => users.id, { onDelete: 'set null' }),
+		...timestamps
+	},
+	(t) => [
+		uniqueIndex('parts_maker_number_idx').on(t.maker, t.partNumber),
+		index('parts_kind_idx').on(t.kind)
+	]
+);
+
+export const samples = pgTable(
+	'samples',
+	{
+		id: serial('id').primaryKey(),
+		partId: integer('part_id')
+			.notNull()
+			.references(() => parts.id, { onDelete: 'cascade' }),
+		unit: text('unit').notNull(),
+		lot: text('lot').notNull().default(''),
+		dateCode: text('date_code').notNull().default(''),
+		...timestamps
+	},
+	(t) => [uniqueIndex('samples_part_unit_idx').on(t.partId, t.unit)]
+);
+
+export const SWEEP_DIRECTIONS = ['forward', 'reverse', 'both'] as const;
+export type SweepDirection = (typeof SWEEP_DIRECTIONS)[number];
+
+/** One measurement run: the original file byte for byte, and what was parsed from it. */
+export const runs = pgTable(
+	'runs',
+	{
+		id: serial('id').primaryKey(),
+		partId: integer('part_id')
+			.notNull()
+			.references(() => parts.id, { onDelete: 'cascade' }),
+		sampleId: integer('sample_id')
+			.notNull()
+			.references(() => samples.id, { onDelete: 'cascade' }),
+		temperatureC: doublePrecision('temperature_c').notNull(),
+		direction: text('direction').$type<SweepDirection>().notNull(),
+		instrumentNote: text('instrument_note').notNull().default(''),
+		operator: text('operator').notNull().default(''),
+		measuredAt: timestamp('measured_at', { withTimezone: true, mode: 'date' }),
+		fileName: text('file_name').notNull(),
+		fileBytes: bytea('file_bytes').notNull(),
+		fileSha256: text('file_sha256').notNull(),
+		/** Parsed, merged points as [voltageV, currentA] pairs. */
+		points: jsonb('points').$type<[number, number][]>().notNull(),
+		uploadedBy: text('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+		...timestamps
+	},
+	(t) => [
+		uniqueIndex('runs_sha256_idx').on(t.fileSha256),
+		index('runs_part_idx').on(t.partId),
+		index('runs_sample_idx').on(t.sampleId)
+	]
+);
+
+export type FitInterval = { IS: [number, number]; N: [number, number]; RS: [number, number] };
+export type FitQuality = { points: number; rejected: number; rmsResidualV: number };
+export type FitRange = {
+	currentA: [number, number];
+	voltageV: [number, number];
+	temperatureC: number;
+};
+
+export const fits = pgTable(
+	'fits',
+	{
+		id: serial('id').primaryKey(),
+		runId: integer('run_id')
+			.notNull()
+			.references(() => runs.id, { onDelete: 'cascade' }),
+		partId: integer('part_id')
+			.notNull()
+			.references(() => parts.id, { onDelete: 'cascade' }),
+		sampleId: integer('sample_id')
+			.notNull()
+			.references(() => samples.id, { onDelete: 'cascade' }),
+		model: jsonb('model').$type<StoredModel>().notNull(),
+		interval: jsonb('interval').$type<FitInterval>().notNull(),
+		quality: jsonb('quality').$type<FitQuality>().notNull(),
+		range: jsonb('range').$type<FitRange>().notNull(),
+		/** Voltage window left out of the fit by a librarian's correction, if any. */
+		excludedV: jsonb('excluded_v').$type<[number, number] | null>(),
+		fittedBy: text('fitted_by').references(() => users.id, { onDelete: 'set null' }),
+		...timestamps
+	},
+	(t) => [uniqueIndex('fits_run_idx').on(t.runId), index('fits_part_idx').on(t.partId)]
+);
+
+/** Each part's model as the catalogue predicts with it: typical (median over samples),
+ *  the worst sample, and what the measurements cover. Rebuilt in the transaction that
+ *  changes a fit. */
+export const partModels = pgTable('part_models', {
+	partId: integer('part_id')
+		.primaryKey()
+		.references(() => parts.id, { onDelete: 'cascade' }),
+	typical: jsonb('typical').$type<StoredModel>().notNull(),
+	/** One model per sample, for the typical/worst prediction spread. */
+	sampleModels: jsonb('sample_models').$type<StoredModel[]>().notNull(),
+	spread: jsonb('spread').$type<Record<string, [number, number]>>().notNull().default({}),
+	measured: jsonb('measured')
+		.$type<{
+			minCurrentA: number | null;
+			temperaturesC: number[];
+			reverseMeasured: boolean;
+			worstRmsResidualV: number | null;
+		}>()
+		.notNull(),
+	sampleCount: integer('sample_count').notNull(),
+	/** False when the model came from a card or datasheet and no runs back it. */
+	isMeasured: boolean('is_measured').notNull(),
+	version: integer('version').notNull(),
+	...timestamps
+});

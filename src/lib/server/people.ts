@@ -1,0 +1,131 @@
+import { and, asc, eq, gt, inArray, sql } from 'drizzle-orm';
+import { db, type DbOrTx } from './db';
+import { sessions, userRoles, users } from './db/schema';
+import { recordAudit } from './audit';
+import { enqueueMail } from './mail';
+import { isRole, type Role } from '$lib/permissions';
+
+export type Person = { id: string; email: string; name: string; roles: Role[] };
+
+function normaliseEmail(email: string) {
+	return email.trim().toLowerCase();
+}
+
+async function rolesOf(tx: DbOrTx, userIds: string[]): Promise<Map<string, Role[]>> {
+	const map = new Map<string, Role[]>();
+	if (userIds.length === 0) return map;
+	const rows = await tx.select().from(userRoles).where(inArray(userRoles.userId, userIds));
+	for (const r of rows) {
+		if (!isRole(r.role)) continue;
+		map.set(r.userId, [...(map.get(r.userId) ?? []), r.role]);
+	}
+	return map;
+}
+
+function toPerson(u: { id: string; email: string; name: string | null }, roles: Role[] | undefined): Person {
+	return { id: u.id, email: u.email, name: u.name ?? u.email, roles: (roles ?? []).sort() };
+}
+
+export async function findByEmail(email: string, tx: DbOrTx = db): Promise<Person | null> {
+	const [u] = await tx.select().from(users).where(eq(users.email, normaliseEmail(email)));
+	if (!u) return null;
+	return toPerson(u, (await rolesOf(tx, [u.id])).get(u.id));
+}
+
+export async function findById(id: string, tx: DbOrTx = db): Promise<Person | null> {
+	const [u] = await tx.select().from(users).where(eq(users.id, id));
+	if (!u) return null;
+	return toPerson(u, (await rolesOf(tx, [u.id])).get(u.id));
+}
+
+/** The person behind a browser session cookie, or null when absent or expired. */
+export async function findBySessionToken(token: string): Promise<Person | null> {
+	const [row] = await db
+		.select({ id: users.id, email: users.email, name: users.name })
+		.from(sessions)
+		.innerJoin(users, eq(users.id, sessions.userId))
+		.where(and(eq(sessions.sessionToken, token), gt(sessions.expires, new Date())));
+	if (!row) return null;
+	return toPerson(row, (await rolesOf(db, [row.id])).get(row.id));
+}
+
+export async function list(): Promise<Person[]> {
+	const rows = await db.select().from(users).orderBy(asc(users.email));
+	const roles = await rolesOf(
+		db,
+		rows.map((r) => r.id)
+	);
+	return rows.map((u) => toPerson(u, roles.get(u.id)));
+}
+
+export async function listWithRole(role: Role, tx: DbOrTx = db): Promise<Person[]> {
+	const rows = await tx
+		.select({ id: users.id, email: users.email, name: users.name })
+		.from(users)
+		.innerJoin(userRoles, eq(userRoles.userId, users.id))
+		.where(eq(userRoles.role, role));
+	const roles = await rolesOf(
+		tx,
+		rows.map((r) => r.id)
+	);
+	return rows.map((u) => toPerson(u, roles.get(u.id)));
+}
+
+/**
+ * Adds a person (or updates the name of an existing one) with roles, records it, and,
+ * when `inviteUrl` is given, queues an invitation mail — all in one transaction.
+ */
+export async function upsert(
+	input: { email: string; name: string; roles: Role[] },
+	actorId: string | null,
+	inviteUrl?: string
+): Promise<Person> {
+	const email = normaliseEmail(input.email);
+	return db.transaction(async (tx) => {
+		const [u] = await tx
+			.insert(users)
+			.values({ email, name: input.name })
+			.onConflictDoUpdate({ target: users.email, set: { name: sql`coalesce(excluded.name, ${users.name})` } })
+			.returning();
+		for (const role of input.roles) {
+			await tx.insert(userRoles).values({ userId: u.id, role, grantedBy: actorId }).onConflictDoNothing();
+		}
+		await recordAudit(tx, {
+			actorId,
+			action: inviteUrl ? 'person.invited' : 'person.saved',
+			entity: 'person',
+			entityId: u.id,
+			detail: { email, roles: input.roles }
+		});
+		if (inviteUrl) {
+			await enqueueMail(tx, {
+				to: email,
+				subject: 'You have been invited to Junctionary',
+				text: `Hello ${input.name},\n\nYou have been given access to Junctionary, the team's catalogue of measured junctions, as ${input.roles.join(', ') || 'a member'}.\n\nSign in with this address here:\n${inviteUrl}\n\nNo password is needed: each sign-in sends a one-time link to this address.\n`,
+				html: `<p>Hello ${escapeHtml(input.name)},</p><p>You have been given access to Junctionary, the team's catalogue of measured junctions, as <b>${escapeHtml(input.roles.join(', ') || 'a member')}</b>.</p><p><a href="${escapeHtml(inviteUrl)}">Sign in with this address</a></p><p>No password is needed: each sign-in sends a one-time link to this address.</p>`
+			});
+		}
+		return toPerson(u, (await rolesOf(tx, [u.id])).get(u.id));
+	});
+}
+
+export async function setRole(userId: string, role: Role, granted: boolean, actorId: string) {
+	await db.transaction(async (tx) => {
+		if (granted) {
+			await tx.insert(userRoles).values({ userId, role, grantedBy: actorId }).onConflictDoNothing();
+		} else {
+			await tx.delete(userRoles).where(and(eq(userRoles.userId, userId), eq(userRoles.role, role)));
+		}
+		await recordAudit(tx, {
+			actorId,
+			action: granted ? 'role.granted' : 'role.revoked',
+			entity: 'person',
+			entityId: userId,
+			detail: { role }
+		});
+	});
+}
+
+export function escapeHtml(s: string): string {
+	return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+}

@@ -1,0 +1,68 @@
+import { createHash, randomBytes, timingSafeEqual } from 'node:crypto';
+import { and, desc, eq, isNull, lt, or } from 'drizzle-orm';
+import { db } from './db';
+import { apiTokens } from './db/schema';
+import { recordAudit } from './audit';
+import * as people from './people';
+
+const PREFIX = 'jct_';
+
+function hash(token: string): string {
+	return createHash('sha256').update(token).digest('hex');
+}
+
+/** Creates a personal token; the secret is returned once and only its hash is kept. */
+export async function create(userId: string, name: string, actorId: string | null = userId) {
+	const token = PREFIX + randomBytes(32).toString('base64url');
+	return db.transaction(async (tx) => {
+		const [row] = await tx
+			.insert(apiTokens)
+			.values({ userId, name, tokenHash: hash(token), prefix: token.slice(0, PREFIX.length + 6) })
+			.returning({ id: apiTokens.id, name: apiTokens.name, createdAt: apiTokens.createdAt });
+		await recordAudit(tx, { actorId, action: 'token.created', entity: 'api-token', entityId: row.id, detail: { userId, name } });
+		return { ...row, token };
+	});
+}
+
+export async function listFor(userId: string) {
+	return db
+		.select({
+			id: apiTokens.id,
+			name: apiTokens.name,
+			prefix: apiTokens.prefix,
+			createdAt: apiTokens.createdAt,
+			lastUsedAt: apiTokens.lastUsedAt,
+			revokedAt: apiTokens.revokedAt
+		})
+		.from(apiTokens)
+		.where(eq(apiTokens.userId, userId))
+		.orderBy(desc(apiTokens.createdAt));
+}
+
+export async function revoke(userId: string, tokenId: number): Promise<boolean> {
+	return db.transaction(async (tx) => {
+		const rows = await tx
+			.update(apiTokens)
+			.set({ revokedAt: new Date() })
+			.where(and(eq(apiTokens.id, tokenId), eq(apiTokens.userId, userId), isNull(apiTokens.revokedAt)))
+			.returning({ id: apiTokens.id });
+		if (rows.length) await recordAudit(tx, { actorId: userId, action: 'token.revoked', entity: 'api-token', entityId: tokenId });
+		return rows.length > 0;
+	});
+}
+
+/** The person a bearer token belongs to, or null for an unknown, forged or revoked token. */
+export async function resolve(token: string): Promise<people.Person | null> {
+	if (!token.startsWith(PREFIX) || token.length > 200) return null;
+	const digest = hash(token);
+	const [row] = await db.select().from(apiTokens).where(eq(apiTokens.tokenHash, digest));
+	// The lookup is by hash, so timing reveals nothing of the secret; compare anyway.
+	if (!row || row.revokedAt || !timingSafeEqual(Buffer.from(row.tokenHash), Buffer.from(digest))) return null;
+	// Recording last use at most once a minute keeps reads from turning into writes.
+	const now = new Date();
+	await db
+		.update(apiTokens)
+		.set({ lastUsedAt: now })
+		.where(and(eq(apiTokens.id, row.id), or(isNull(apiTokens.lastUsedAt), lt(apiTokens.lastUsedAt, new Date(now.getTime() - 60_000)))));
+	return people.findById(row.userId);
+}

@@ -1,6 +1,11 @@
 import { sveltekit } from '@sveltejs/kit/vite';
 import tailwindcss from '@tailwindcss/vite';
+import { loadEnv } from 'vite';
 import { defineConfig } from 'vitest/config';
+
+// Server modules read process.env (so scripts and tests share them): fill it from .env
+// in development without overriding what the shell set.
+for (const [k, v] of Object.entries(loadEnv('development', process.cwd(), ''))) process.env[k] ??= v;
 
 export default defineConfig({
 	plugins: [tailwindcss(), sveltekit()],

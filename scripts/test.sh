@@ -19,7 +19,7 @@ export DATABASE_URL="postgres://junctionary@127.0.0.1:$PGPORT/junctionary_test"
 export SMTP_URL="smtp://127.0.0.1:$MAIL_SMTP_PORT"
 export MAIL_CATCHER_URL="http://127.0.0.1:$MAIL_HTTP_PORT"
 export DEV_MAILBOX=1
-export HOST=127.0.0.1 PORT ORIGIN="http://127.0.0.1:$PORT" BASE_URL="http://127.0.0.1:$PORT"
+export HOST=127.0.0.1 PORT ORIGIN="http://127.0.0.1:$PORT" APP_URL="http://127.0.0.1:$PORT"
 export NODE_ENV=production
 
 cleanup() {
@@ -52,7 +52,7 @@ log "building"
 npx vite build --logLevel warn || status=1
 node build >"$DATA/test-server.log" 2>&1 &
 SERVER_PID=$!
-wait_for_http "$BASE_URL/api/v1/health" || { status=1; tail -30 "$DATA/test-server.log"; }
+wait_for_http "$APP_URL/api/v1/health" || { status=1; tail -30 "$DATA/test-server.log"; }
 
 log "integration tests (PostgreSQL on :$PGPORT, app on :$PORT)"
 npx vitest run --project integration --reporter=default --reporter=json --outputFile="$RESULTS/integration.json" || status=1

@@ -1,0 +1,13 @@
+import type { RouteCase } from './types';
+
+// Who may reach each foundation route. 'anyone' = every signed-in person with a role.
+export const foundationRoutes: RouteCase[] = [
+	{ route: '/', method: 'GET', path: '/', allow: 'signed-in', kind: 'page' },
+	{ route: '/admin', method: 'GET', path: '/admin', allow: ['admin'], kind: 'page' },
+	{ route: '/account/tokens', method: 'GET', path: '/account/tokens', allow: 'any-role', kind: 'page' },
+	{ route: '/api/v1/junctions', method: 'GET', path: '/api/v1/junctions', allow: 'any-role', kind: 'api' },
+	{ route: '/api/v1/junctions', method: 'POST', path: '/api/v1/junctions', allow: ['librarian'], kind: 'api', json: {} }
+];
+
+// Routes that are open to everyone or are not guarded pages in their own right.
+export const publicRoutes = ['/signin', '/signin/check-mail', '/signout', '/auth', '/dev/mailbox', '/api/v1/health'];

@@ -1,0 +1,48 @@
+import { test as base, expect, type Page } from '@playwright/test';
+import { mkdirSync } from 'node:fs';
+
+export const CATCHER_URL = process.env.MAIL_CATCHER_URL ?? 'http://127.0.0.1:2536';
+export const SCREENSHOTS = 'tests/e2e/screenshots';
+
+type Mail = { id: number; to: string[]; subject: string; links: string[] };
+
+async function newestMail(to: string, subject: RegExp, after: number): Promise<Mail> {
+	const until = Date.now() + 15_000;
+	while (Date.now() < until) {
+		const res = await fetch(`${CATCHER_URL}/messages?to=${encodeURIComponent(to)}`);
+		const list = (await res.json()) as Mail[];
+		const found = list.find((m) => m.id > after && subject.test(m.subject));
+		if (found) return found;
+		await new Promise((r) => setTimeout(r, 200));
+	}
+	throw new Error(`no mail for ${to} matching ${subject}`);
+}
+
+async function lastMailId(): Promise<number> {
+	const list = (await (await fetch(`${CATCHER_URL}/messages`)).json()) as Mail[];
+	return list[0]?.id ?? 0;
+}
+
+/**
+ * Signs in the way a person does: asks for a link on the sign-in page, opens the local
+ * mailbox page, and follows the link in the newest message.
+ */
+export async function signInAs(page: Page, email: string, next = '/') {
+	const before = await lastMailId();
+	await page.goto(`/signin?next=${encodeURIComponent(next)}`);
+	await page.getByLabel('Work e-mail').fill(email);
+	await page.getByRole('button', { name: /sign-in link/i }).click();
+	await expect(page.getByRole('heading', { name: 'Check your mail' })).toBeVisible();
+	const mail = await newestMail(email, /sign-in link/i, before);
+	await page.goto(`/dev/mailbox?to=${encodeURIComponent(email)}`);
+	await page.locator(`a[href="${mail.links[0]}"]`).first().click();
+	await page.waitForURL((u) => !u.pathname.startsWith('/auth') && !u.pathname.startsWith('/dev'));
+}
+
+export async function screenshot(page: Page, name: string) {
+	mkdirSync(SCREENSHOTS, { recursive: true });
+	await page.screenshot({ path: `${SCREENSHOTS}/${name}.png`, fullPage: true });
+}
+
+export const test = base;
+export { expect };

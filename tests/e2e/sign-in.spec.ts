@@ -1,0 +1,22 @@
+import { expect, screenshot, signInAs, test } from './fixtures';
+
+test('a designer signs in through the local mailbox and sees what to do next', async ({ page }) => {
+	await page.goto('/');
+	await expect(page).toHaveURL(/\/signin/);
+	await screenshot(page, 'signin');
+	await signInAs(page, 'designer@demo.test');
+	await expect(page.getByRole('heading', { name: /Good to see you, Oona/ })).toBeVisible();
+	await expect(page.getByRole('link', { name: 'Open the ranking' })).toBeVisible();
+	// The designer's navigation has no admin entry.
+	await expect(page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'People' })).toHaveCount(0);
+	await screenshot(page, 'home-designer');
+	await page.getByRole('button', { name: 'Sign out' }).click();
+	await expect(page.getByText('You are signed out.')).toBeVisible();
+});
+
+test('an admin sees the people screen', async ({ page }) => {
+	await signInAs(page, 'admin@demo.test', '/admin');
+	await expect(page.getByRole('heading', { name: 'People and roles' })).toBeVisible();
+	await expect(page.getByRole('cell', { name: 'designer@demo.test' })).toBeVisible();
+	await screenshot(page, 'admin-people');
+});

@@ -138,6 +138,10 @@ export type FitRange = {
 	currentA: [number, number];
 	voltageV: [number, number];
 	temperatureC: number;
+	/** Smallest |current| anywhere in the run [A]. */
+	minAbsCurrentA?: number;
+	/** True when the run held reverse-bias points. */
+	reverseMeasured?: boolean;
 };
 
 export const fits = pgTable(
@@ -173,6 +177,8 @@ export const partModels = pgTable('part_models', {
 		.primaryKey()
 		.references(() => parts.id, { onDelete: 'cascade' }),
 	typical: jsonb('typical').$type<StoredModel>().notNull(),
+	/** The sample with the highest predicted leakage (the given model when nothing is measured). */
+	worst: jsonb('worst').$type<StoredModel>(),
 	/** One model per sample, for the typical/worst prediction spread. */
 	sampleModels: jsonb('sample_models').$type<StoredModel[]>().notNull(),
 	spread: jsonb('spread').$type<Record<string, [number, number]>>().notNull().default({}),

@@ -1,0 +1,1 @@
+ALTER TABLE "part_models" ADD COLUMN "worst" jsonb;

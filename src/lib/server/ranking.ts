@@ -1,0 +1,139 @@
+/**
+ * Ranking the catalogue at a designer's operating point, and predictions for named parts.
+ * The numbers come from the engine's catalogue table (src/lib/junction/rank.ts) over the
+ * in-memory model cache; this module adds the catalogue's filters, the leakage budget,
+ * capacitance limit, error voltage across the source resistance and reverse margin.
+ *
+ * Worst case: leakage at the hot end of the range (largest sample), forward drop at the
+ * cold end (largest sample). The bias is across the junction itself, so the source
+ * resistance is not put in series: it only turns leakage into an error voltage.
+ */
+import { CatalogueTable, type OperatingPoint, type RankResult, type RankedPart } from '$lib/junction';
+import type { RankFlag, RankItem, RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
+import { modelCache, type CacheSnapshot, type CachedPart, type ModelCache } from './model-cache';
+
+/** A rank item for one part, with the model version the numbers came from. */
+export type Prediction = Omit<RankItem, 'rank'> & { modelVersion: number };
+
+/** The engine's operating point (the source resistance is not a series element here). */
+export function engineOperatingPoint(op: RankOperatingPoint): OperatingPoint {
+	return {
+		biasV: op.biasV,
+		...(op.temperatureRangeC ? { temperatureRangeC: op.temperatureRangeC } : { temperatureC: op.temperatureC }),
+		...(op.clampCurrentA !== undefined ? { clampCurrentA: op.clampCurrentA } : {}),
+		...(op.maxForwardDropV !== undefined ? { maxForwardDropV: op.maxForwardDropV } : {}),
+		reverseMarginV: op.reverseMarginV ?? 0,
+		includeOverRating: op.includeOverRating ?? false
+	};
+}
+
+/** Worst leakage the operating point allows [A]: given directly, or error voltage ÷ source resistance. */
+export function leakageBudget(op: RankOperatingPoint): number | null {
+	if (op.leakageTargetA !== undefined) return op.leakageTargetA;
+	if (op.allowedErrorV !== undefined && op.sourceResistanceOhm !== undefined) return op.allowedErrorV / op.sourceResistanceOhm;
+	return null;
+}
+
+function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint, budget: number | null): Omit<RankItem, 'rank'> {
+	const flags: RankFlag[] = [...row.flags];
+	const cap = row.capacitanceF ?? null;
+	if (budget !== null && row.leakageA.worst > budget) flags.push('over-leakage-target');
+	if (op.maxCapacitanceF !== undefined && cap !== null && cap > op.maxCapacitanceF) flags.push('over-capacitance-limit');
+	return {
+		id: part.id,
+		partNumber: part.partNumber,
+		maker: part.maker,
+		kind: part.kind,
+		package: part.package,
+		lifecycle: part.lifecycle,
+		ratedReverseV: part.ratedReverseV,
+		samples: row.samples,
+		leakageA: row.leakageA,
+		forwardDropV: row.forwardDropV ? { cold: row.forwardDropV.cold, hot: row.forwardDropV.hot, worst: row.forwardDropV.worst } : null,
+		reverseMarginV: part.ratedReverseV === null ? null : part.ratedReverseV - Math.max(0, -op.biasV),
+		capacitanceF: cap,
+		errorVoltageV: op.sourceResistanceOhm !== undefined ? row.leakageA.worst * op.sourceResistanceOhm : null,
+		flags
+	};
+}
+
+/** Whether a part passes the catalogue filters (kinds, lifecycles, packages, text). */
+export function matchesFilters(part: CachedPart, op: RankOperatingPoint): boolean {
+	if (op.kinds?.length && !op.kinds.includes(part.kind)) return false;
+	if (op.lifecycles?.length && !op.lifecycles.includes(part.lifecycle)) return false;
+	if (op.packages?.length && !op.packages.some((p) => p.toLowerCase() === part.package.toLowerCase())) return false;
+	if (op.q) {
+		const words = op.q.toLowerCase().split(/\s+/).filter(Boolean);
+		if (!words.every((w) => part.search.includes(w))) return false;
+	}
+	return true;
+}
+
+function hasFilters(op: RankOperatingPoint): boolean {
+	return Boolean(op.kinds?.length || op.lifecycles?.length || op.packages?.length || op.q);
+}
+
+/** Ranks one snapshot (exported for benchmarks and tests that hold their own cache). */
+export function rankSnapshot(
+	snap: CacheSnapshot,
+	op: RankOperatingPoint,
+	limit = 100,
+	withModels = 0
+): RankResponse {
+	const eop = engineOperatingPoint(op);
+	const result: RankResult = snap.table.rank(eop);
+	let order = result.order;
+	let evaluated = snap.parts.length;
+	let excludedOverRating = result.excluded.length;
+	if (hasFilters(op)) {
+		const keep = new Int32Array(order.length);
+		let n = 0;
+		for (let r = 0; r < order.length; r++) if (matchesFilters(snap.parts[order[r]], op)) keep[n++] = order[r];
+		order = keep.slice(0, n);
+		excludedOverRating = 0;
+		for (let r = 0; r < result.excluded.length; r++) if (matchesFilters(snap.parts[result.excluded[r]], op)) excludedOverRating++;
+		evaluated = n + excludedOverRating;
+	}
+	const budget = leakageBudget(op);
+	const rows = snap.table.rows({ ...result, order }, eop, 0, limit);
+	const items: RankItem[] = rows.map((row, i) => {
+		const part = snap.parts[order[i]];
+		const item: RankItem = { rank: i + 1, ...toItem(part, row, op, budget) };
+		if (i < withModels) item.model = { ...part.typical, material: part.material };
+		return item;
+	});
+	return { items, evaluated, excludedOverRating, hotC: result.hotC, coldC: result.coldC, leakageBudgetA: budget };
+}
+
+/** Ranks the whole catalogue at an operating point (lowest worst-case leakage first). */
+export async function rankCatalogue(op: RankOperatingPoint, limit = 100, withModels = 0, cache?: ModelCache): Promise<RankResponse> {
+	const c = cache ?? (await modelCache());
+	return rankSnapshot(c.snapshot, op, limit, withModels);
+}
+
+/**
+ * Predictions for the named parts at an operating point, keyed by part id. Parts over
+ * their reverse rating are included (with the flag); parts without a usable model are
+ * absent from the map. `modelVersion` is parts.modelVersion as the numbers were computed.
+ */
+export async function predictParts(partIds: number[], op: RankOperatingPoint, cache?: ModelCache): Promise<Map<number, Prediction>> {
+	const c = cache ?? (await modelCache());
+	const snap = c.snapshot;
+	const chosen: CachedPart[] = [];
+	for (const id of new Set(partIds)) {
+		const k = snap.indexOf.get(id);
+		if (k !== undefined) chosen.push(snap.parts[k]);
+	}
+	const out = new Map<number, Prediction>();
+	if (chosen.length === 0) return out;
+	const table = new CatalogueTable(chosen.map((p) => p.record));
+	const eop = { ...engineOperatingPoint(op), includeOverRating: true };
+	const result = table.rank(eop);
+	const rows = table.rows(result, eop, 0, chosen.length);
+	const budget = leakageBudget(op);
+	rows.forEach((row, i) => {
+		const part = chosen[result.order[i]];
+		out.set(part.id, { ...toItem(part, row, op, budget), modelVersion: part.modelVersion });
+	});
+	return out;
+}

@@ -1,0 +1,52 @@
+/**
+ * Junction physics engine: public surface. Pure TypeScript, no Node/DOM APIs.
+ */
+export { SI_2019, CODATA_2014, ZERO_CELSIUS_K, celsiusToKelvin, kelvinToCelsius, thermalVoltage } from './constants';
+export type { PhysicalConstants } from './constants';
+export {
+	parseQuantity,
+	parseVoltage,
+	parseCurrent,
+	parseResistance,
+	parseCapacitance,
+	parseTemperature,
+	formatSI,
+	formatBias,
+	formatTemperature,
+	MINUS
+} from './units';
+export type { QuantityKind, ParsedTemperature, FormatOptions } from './units';
+export { createModel, validateModel, MATERIAL_DEFAULTS, SPICE_DEFAULTS } from './model';
+export type { JunctionModel, JunctionModelInput, JunctionMaterial } from './model';
+export { lambertW0, lambertW0Exp, logLambertW0Exp } from './lambert-w';
+export { scaleModel, saturationCurrentAt, shuntResistanceAt, junctionPotentialAt, logSaturationFactor } from './temperature';
+export type { ScaledJunction } from './temperature';
+export {
+	diodeCurrent,
+	currentAtBias,
+	forwardVoltage,
+	voltageAtCurrent,
+	zeroBiasConductance,
+	junctionCurrent,
+	solveBias
+} from './shockley';
+export { junctionCapacitance, depletionCapacitance } from './capacitance';
+export { parseSpiceNumber, parseModelCard, parseModelCards, emitModelCard } from './spice-card';
+export type { ParsedModelCard, EmitOptions } from './spice-card';
+export { SweepError, SweepTooLargeError, FitError } from './errors';
+export type { DataIssue } from './errors';
+export { parseSweepCsv, checkSweepSize, MAX_SWEEP_BYTES } from './csv';
+export type { ParsedSweep, SweepRun, SweepOptions } from './csv';
+export { fitSweep, fitSweepCsv } from './fit';
+export type { FitResult, FitOptions, Interval } from './fit';
+export { ModelTable } from './model-table';
+export {
+	CatalogueTable,
+	explainFlag,
+	flagsFromBits,
+	temperatureEnds,
+	FLAG_CODES,
+	POOR_FIT_RMS_V,
+	TEMPERATURE_EXTRAPOLATION_K
+} from './rank';
+export type { PartRecord, OperatingPoint, RankResult, RankedPart, FlagCode, JunctionKind } from './rank';

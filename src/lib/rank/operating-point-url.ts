@@ -1,0 +1,285 @@
+/**
+ * The operating point as text fields (what a person types) ↔ URL query ↔ API operating
+ * point. Pure: used by the page's load function (no-JavaScript path), the live page and
+ * the compare page, so a ranking can be bookmarked and shared.
+ *
+ * Query names: v (bias), tlo/thi (temperature or range), ic (clamp current), vf (max
+ * forward drop), margin (reverse-rating margin), over=1 (list parts over the rating),
+ * rs (source resistance), verr (allowed error voltage), ileak (allowed leakage),
+ * cmax (capacitance limit), kind (repeated), pkg (comma-separated), life (repeated), q.
+ */
+import { parseQuantity, parseTemperature, type QuantityKind } from '$lib/junction';
+import {
+	operatingPointSchema,
+	RANK_KINDS,
+	RANK_LIFECYCLES,
+	type RankKind,
+	type RankLifecycle,
+	type RankOperatingPoint
+} from '$lib/schemas/rank';
+
+export type OpFields = {
+	bias: string;
+	tLo: string;
+	tHi: string;
+	clamp: string;
+	maxDrop: string;
+	margin: string;
+	overRating: boolean;
+	source: string;
+	allowedError: string;
+	leakage: string;
+	maxCap: string;
+	kinds: RankKind[];
+	packages: string;
+	lifecycles: RankLifecycle[];
+	q: string;
+};
+
+export type FieldName = keyof OpFields;
+export type FieldErrors = Partial<Record<FieldName, string>>;
+
+/** What /rank shows before anyone types: a reverse-biased clamp on a warm board. */
+export const DEFAULT_FIELDS: OpFields = {
+	bias: '-5',
+	tLo: '25',
+	tHi: '85',
+	clamp: '1m',
+	maxDrop: '0.7',
+	margin: '',
+	overRating: false,
+	source: '',
+	allowedError: '',
+	leakage: '',
+	maxCap: '',
+	kinds: [],
+	packages: '',
+	lifecycles: [],
+	q: ''
+};
+
+export function emptyFields(): OpFields {
+	return { ...DEFAULT_FIELDS, bias: '', tLo: '', tHi: '', clamp: '', maxDrop: '', kinds: [], lifecycles: [] };
+}
+
+const TEXT_PARAMS: [Exclude<FieldName, 'overRating' | 'kinds' | 'lifecycles'>, string][] = [
+	['bias', 'v'],
+	['tLo', 'tlo'],
+	['tHi', 'thi'],
+	['clamp', 'ic'],
+	['maxDrop', 'vf'],
+	['margin', 'margin'],
+	['source', 'rs'],
+	['allowedError', 'verr'],
+	['leakage', 'ileak'],
+	['maxCap', 'cmax'],
+	['packages', 'pkg'],
+	['q', 'q']
+];
+
+/** Query parameter names the operating point uses (others, e.g. ids, are left alone). */
+export const OP_PARAM_NAMES = [...TEXT_PARAMS.map(([, p]) => p), 'over', 'kind', 'life'];
+
+/** Reads fields from a query; an empty query (no v and no temperature) gives the defaults. */
+export function fieldsFromQuery(params: URLSearchParams): OpFields {
+	if (!params.has('v') && !params.has('thi') && !params.has('tlo')) return { ...DEFAULT_FIELDS, kinds: [], lifecycles: [] };
+	const f = emptyFields();
+	for (const [field, name] of TEXT_PARAMS) f[field] = (params.get(name) ?? '').trim();
+	f.overRating = params.get('over') === '1' || params.get('over') === 'on';
+	f.kinds = params.getAll('kind').filter((k): k is RankKind => (RANK_KINDS as readonly string[]).includes(k));
+	f.lifecycles = params.getAll('life').filter((k): k is RankLifecycle => (RANK_LIFECYCLES as readonly string[]).includes(k));
+	return f;
+}
+
+/** Writes fields to a query, leaving empty ones out. */
+export function queryFromFields(f: OpFields): URLSearchParams {
+	const p = new URLSearchParams();
+	for (const [field, name] of TEXT_PARAMS) {
+		const v = f[field].trim();
+		if (v) p.set(name, v);
+	}
+	if (f.overRating) p.set('over', '1');
+	for (const k of f.kinds) p.append('kind', k);
+	for (const l of f.lifecycles) p.append('life', l);
+	return p;
+}
+
+const PREFIXES: [string, number][] = [
+	['', 1],
+	['m', 1e-3],
+	['u', 1e-6],
+	['n', 1e-9],
+	['p', 1e-12],
+	['f', 1e-15],
+	['a', 1e-18],
+	['k', 1e3],
+	['M', 1e6],
+	['G', 1e9],
+	['T', 1e12]
+];
+
+/**
+ * Shortest text that the unit parser reads back as exactly `value`, e.g. 1e-3 → "1m",
+ * 1e10 → "10G", -5 → "-5". Falls back to JavaScript's shortest round-trip form.
+ */
+export function compactNumber(value: number, kind: QuantityKind = 'number'): string {
+	let best = String(value);
+	for (const [prefix, scale] of PREFIXES) {
+		const mant = value / scale;
+		for (const digits of [15, 16, 17]) {
+			const txt = String(Number(mant.toPrecision(digits))) + prefix;
+			let back: number;
+			try {
+				back = parseQuantity(txt, kind);
+			} catch {
+				continue;
+			}
+			if (back === value && txt.length < best.length) best = txt;
+			if (back === value) break;
+		}
+	}
+	return best;
+}
+
+/** The fields that write exactly this operating point. */
+export function fieldsFromOperatingPoint(op: RankOperatingPoint): OpFields {
+	const f = emptyFields();
+	const num = (v: number | undefined, kind: QuantityKind) => (v === undefined ? '' : compactNumber(v, kind));
+	f.bias = num(op.biasV, 'voltage');
+	if (op.temperatureRangeC) {
+		f.tLo = String(op.temperatureRangeC[0]);
+		f.tHi = String(op.temperatureRangeC[1]);
+	} else if (op.temperatureC !== undefined) {
+		f.tHi = String(op.temperatureC);
+	}
+	f.clamp = num(op.clampCurrentA, 'current');
+	f.maxDrop = num(op.maxForwardDropV, 'voltage');
+	f.margin = num(op.reverseMarginV, 'voltage');
+	f.overRating = op.includeOverRating ?? false;
+	f.source = num(op.sourceResistanceOhm, 'resistance');
+	f.allowedError = num(op.allowedErrorV, 'voltage');
+	f.leakage = num(op.leakageTargetA, 'current');
+	f.maxCap = num(op.maxCapacitanceF, 'capacitance');
+	f.kinds = [...(op.kinds ?? [])];
+	f.lifecycles = [...(op.lifecycles ?? [])];
+	f.packages = (op.packages ?? []).join(', ');
+	f.q = op.q ?? '';
+	return f;
+}
+
+export function queryFromOperatingPoint(op: RankOperatingPoint): URLSearchParams {
+	return queryFromFields(fieldsFromOperatingPoint(op));
+}
+
+/**
+ * °C from a typed temperature. The unit parser goes through kelvin (t + 273.15 − 273.15),
+ * which can move the last binary digit; 12 significant figures give back what was typed.
+ */
+function celsiusOf(text: string): number {
+	return Number(parseTemperature(text).celsius.toPrecision(12));
+}
+
+/** The schema's field paths → the text field that holds them. */
+const PATH_FIELD: Record<string, FieldName> = {
+	biasV: 'bias',
+	temperatureC: 'tHi',
+	temperatureRangeC: 'tLo',
+	clampCurrentA: 'clamp',
+	maxForwardDropV: 'maxDrop',
+	reverseMarginV: 'margin',
+	sourceResistanceOhm: 'source',
+	allowedErrorV: 'allowedError',
+	leakageTargetA: 'leakage',
+	maxCapacitanceF: 'maxCap',
+	packages: 'packages',
+	q: 'q',
+	kinds: 'kinds',
+	lifecycles: 'lifecycles'
+};
+
+/**
+ * Parses the fields with the engine's unit parser. Returns the operating point when every
+ * field is valid, and an error per field otherwise (messages say what was expected).
+ */
+export function parseFields(f: OpFields): { op: RankOperatingPoint | null; errors: FieldErrors } {
+	const errors: FieldErrors = {};
+	const quantity = (field: FieldName, kind: QuantityKind, required = false): number | undefined => {
+		const text = String(f[field]).trim();
+		if (!text) {
+			if (required) errors[field] = 'required';
+			return undefined;
+		}
+		try {
+			return parseQuantity(text, kind);
+		} catch (e) {
+			errors[field] = (e as Error).message;
+			return undefined;
+		}
+	};
+	const temperature = (field: 'tLo' | 'tHi'): number | undefined => {
+		const text = f[field].trim();
+		if (!text) return undefined;
+		try {
+			return celsiusOf(text);
+		} catch (e) {
+			errors[field] = (e as Error).message;
+			return undefined;
+		}
+	};
+	const op: Record<string, unknown> = {};
+	op.biasV = quantity('bias', 'voltage', true);
+	// A range typed into one box ("−40…85") is accepted too.
+	let lo = temperature('tLo');
+	let hi: number | undefined;
+	const rangeInHi = /^(.+?)\s*(?:\.\.|…|\bto\b)\s*(.+)$/.exec(f.tHi.trim());
+	if (rangeInHi && !f.tLo.trim()) {
+		try {
+			lo = celsiusOf(rangeInHi[1]);
+			hi = celsiusOf(rangeInHi[2]);
+		} catch (e) {
+			errors.tHi = (e as Error).message;
+		}
+	} else hi = temperature('tHi');
+	if (hi === undefined && !errors.tHi) errors.tHi = 'required';
+	if (lo !== undefined && hi !== undefined) {
+		if (lo > hi) errors.tLo = 'the low end must not be above the high end';
+		op.temperatureRangeC = [lo, hi];
+	} else if (hi !== undefined) op.temperatureC = hi;
+	const optional: [FieldName, string, QuantityKind][] = [
+		['clamp', 'clampCurrentA', 'current'],
+		['maxDrop', 'maxForwardDropV', 'voltage'],
+		['margin', 'reverseMarginV', 'voltage'],
+		['source', 'sourceResistanceOhm', 'resistance'],
+		['allowedError', 'allowedErrorV', 'voltage'],
+		['leakage', 'leakageTargetA', 'current'],
+		['maxCap', 'maxCapacitanceF', 'capacitance']
+	];
+	for (const [field, key, kind] of optional) {
+		const v = quantity(field, kind);
+		if (v !== undefined) op[key] = v;
+	}
+	if (f.overRating) op.includeOverRating = true;
+	if (f.kinds.length) op.kinds = [...f.kinds];
+	if (f.lifecycles.length) op.lifecycles = [...f.lifecycles];
+	const pk = f.packages
+		.split(',')
+		.map((s) => s.trim())
+		.filter(Boolean);
+	if (pk.length) op.packages = pk;
+	if (f.q.trim()) op.q = f.q.trim();
+	if (Object.keys(errors).length) return { op: null, errors };
+	const checked = operatingPointSchema.safeParse(op);
+	if (!checked.success) {
+		for (const issue of checked.error.issues) {
+			const field = PATH_FIELD[String(issue.path[0] ?? 'biasV')] ?? 'bias';
+			errors[field] ??= issue.message;
+		}
+		return { op: null, errors };
+	}
+	return { op: checked.data, errors };
+}
+
+/** Query string → operating point (null with errors when a field is invalid). */
+export function operatingPointFromQuery(params: URLSearchParams) {
+	return parseFields(fieldsFromQuery(params));
+}

@@ -1,0 +1,12 @@
+import { json } from '@sveltejs/kit';
+import { endpoint, readJson } from '$lib/server/api';
+import { requirePermission } from '$lib/server/guards';
+import { rankRequestSchema } from '$lib/schemas/rank';
+import { rankCatalogue } from '$lib/server/ranking';
+
+// Ranks the catalogue at an operating point: lowest worst-case leakage first.
+export const POST = endpoint(async (event) => {
+	requirePermission(event, 'rank:use');
+	const { op, limit, withModels } = await readJson(event, rankRequestSchema);
+	return json(await rankCatalogue(op, limit, withModels));
+});

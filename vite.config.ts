@@ -31,6 +31,18 @@ export default defineConfig({
 					testTimeout: 60_000,
 					hookTimeout: 60_000
 				}
+			},
+			{
+				// Stops and restarts the test database under the running app: runs alone, last.
+				extends: './vite.config.ts',
+				test: {
+					name: 'faults',
+					environment: 'node',
+					include: ['tests/faults/**/*.spec.ts'],
+					fileParallelism: false,
+					testTimeout: 120_000,
+					hookTimeout: 60_000
+				}
 			}
 		]
 	}

@@ -7,7 +7,7 @@ let passed = 0;
 let failed = 0;
 let skipped = 0;
 
-for (const name of ['unit.json', 'integration.json']) {
+for (const name of ['unit.json', 'integration.json', 'faults.json']) {
 	const file = join(dir, name);
 	if (!existsSync(file)) {
 		console.log(`${name}: no report (the run did not finish)`);

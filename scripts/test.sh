@@ -57,6 +57,9 @@ wait_for_http "$APP_URL/api/v1/health" || { status=1; tail -30 "$DATA/test-serve
 log "integration tests (PostgreSQL on :$PGPORT, app on :$PORT)"
 npx vitest run --project integration --reporter=default --reporter=json --outputFile="$RESULTS/integration.json" || status=1
 
+log "fault tests (PostgreSQL stopped and restarted under the app)"
+PG_CLUSTER=pg-test PGPORT=$PGPORT npx vitest run --project faults --reporter=default --reporter=json --outputFile="$RESULTS/faults.json" || status=1
+
 log "browser tests (Debian chromium)"
 PLAYWRIGHT_JSON_OUTPUT_NAME="$RESULTS/e2e.json" npx playwright test --reporter=list,json || status=1
 

@@ -44,13 +44,22 @@ const identify: Handle = async ({ event, resolve }) => {
 			}
 		}
 	} catch (e) {
-		if (isDatabaseDown(e) && !isPublic(event.url.pathname)) {
-			return apiError(503, 'The database is unavailable; try again shortly.');
-		}
+		if (isDatabaseDown(e) && !isPublic(event.url.pathname)) return unavailable(event.url.pathname);
 		if (!isDatabaseDown(e)) throw e;
 	}
 	return resolve(event);
 };
+
+const UNAVAILABLE = 'The catalogue database is unavailable for a moment; nothing you saved is lost. Try again shortly.';
+
+/** 503 while PostgreSQL is down: JSON for the API, a plain page for people. */
+function unavailable(path: string): Response {
+	if (path.startsWith('/api/')) return apiError(503, UNAVAILABLE);
+	return new Response(
+		`<!doctype html><meta charset="utf-8"><title>Unavailable · Junctionary</title><body style="font-family:sans-serif;background:#f7f2e7;color:#2a2926;padding:3rem"><h1>Junctionary is catching its breath</h1><p>${UNAVAILABLE}</p><p><a href="">Reload</a></p>`,
+		{ status: 503, headers: { 'content-type': 'text/html; charset=utf-8', 'retry-after': '5' } }
+	);
+}
 
 /** The first gate: anonymous callers never reach a non-public route. Routes check roles. */
 const gate: Handle = async ({ event, resolve }) => {
@@ -81,7 +90,7 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 export const handle = sequence(securityHeaders, authHandle, identify, gate);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
-	if (isDatabaseDown(error)) return { message: 'The database is unavailable; try again shortly.', code: 'unavailable' };
+	if (isDatabaseDown(error)) return { message: UNAVAILABLE, code: 'unavailable' };
 	if (status >= 500) console.error(event.url.pathname, error);
 	return { message, code: status === 404 ? 'not_found' : 'internal' };
 };

@@ -43,9 +43,16 @@ export function endpoint(handler: (event: RequestEvent) => Promise<Response> | R
 	};
 }
 
+// Connection refused or lost, server shutting down or starting up.
+const DOWN_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'CONNECTION_CLOSED', 'CONNECTION_ENDED', 'CONNECTION_DESTROYED', 'CONNECT_TIMEOUT', '57P01', '57P02', '57P03']);
+
 export function isDatabaseDown(e: unknown): boolean {
-	const code = (e as { code?: string })?.code;
-	return code === 'ECONNREFUSED' || code === 'CONNECTION_CLOSED' || code === 'CONNECT_TIMEOUT' || code === '57P01' || code === '57P03';
+	// Drizzle wraps driver errors: look at the cause too.
+	for (let err = e as { code?: string; cause?: unknown } | undefined, depth = 0; err && depth < 4; err = err.cause as typeof err, depth++) {
+		const code = err.code;
+		if (code && DOWN_CODES.has(code)) return true;
+	}
+	return false;
 }
 
 /** Reads a JSON body and validates it; malformed JSON is a 400 with a plain message. */

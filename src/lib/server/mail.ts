@@ -19,8 +19,8 @@ function getTransport(): Transporter {
 }
 
 /** Sends at once (sign-in links: the person is waiting for it). */
-export async function sendNow(mail: Mail) {
-	await getTransport().sendMail({ from: FROM, ...mail });
+export async function sendNow(mail: Mail, transporter: Transporter = getTransport()) {
+	await transporter.sendMail({ from: FROM, ...mail });
 }
 
 /** Queues a message in the caller's transaction; the outbox worker delivers it. */
@@ -33,8 +33,14 @@ const MAX_ATTEMPTS = 20;
 /**
  * Delivers due messages. Each row is claimed with FOR UPDATE SKIP LOCKED so several app
  * processes can run the worker side by side; failures back off up to five minutes.
+ * Options (for tests that own their messages): `transport` replaces the SMTP_URL transport,
+ * `now` is the clock that decides what is due and when to retry, `to` limits to one address.
  */
-export async function deliverDue(limit = 20): Promise<{ sent: number; failed: number }> {
+export async function deliverDue(
+	limit = 20,
+	opts: { transport?: Transporter; now?: () => Date; to?: string } = {}
+): Promise<{ sent: number; failed: number }> {
+	const now = opts.now ?? (() => new Date());
 	let sent = 0;
 	let failed = 0;
 	for (let i = 0; i < limit; i++) {
@@ -45,7 +51,8 @@ export async function deliverDue(limit = 20): Promise<{ sent: number; failed: nu
 				.where(
 					and(
 						isNull(mailOutbox.sentAt),
-						lte(mailOutbox.nextAttemptAt, new Date()),
+						lte(mailOutbox.nextAttemptAt, now()),
+						opts.to === undefined ? undefined : eq(mailOutbox.to, opts.to),
 						sql`${mailOutbox.attempts} < ${MAX_ATTEMPTS}`
 					)
 				)
@@ -54,8 +61,8 @@ export async function deliverDue(limit = 20): Promise<{ sent: number; failed: nu
 				.for('update', { skipLocked: true });
 			if (!row) return null;
 			try {
-				await sendNow({ to: row.to, subject: row.subject, text: row.text, html: row.html });
-				await tx.update(mailOutbox).set({ sentAt: new Date(), attempts: row.attempts + 1 }).where(eq(mailOutbox.id, row.id));
+				await sendNow({ to: row.to, subject: row.subject, text: row.text, html: row.html }, opts.transport ?? getTransport());
+				await tx.update(mailOutbox).set({ sentAt: now(), attempts: row.attempts + 1 }).where(eq(mailOutbox.id, row.id));
 				return 'sent' as const;
 			} catch (e) {
 				const backoffMs = Math.min(300_000, 1000 * 2 ** row.attempts);
@@ -63,7 +70,7 @@ export async function deliverDue(limit = 20): Promise<{ sent: number; failed: nu
 					.update(mailOutbox)
 					.set({
 						attempts: row.attempts + 1,
-						nextAttemptAt: new Date(Date.now() + backoffMs),
+						nextAttemptAt: new Date(now().getTime() + backoffMs),
 						lastError: e instanceof Error ? e.message : String(e)
 					})
 					.where(eq(mailOutbox.id, row.id));

@@ -1,0 +1,213 @@
+/**
+ * Review of a project's shortlist. Every transition is one transaction: a guarded update
+ * of the project's state and version, a review event holding a snapshot of every entry's
+ * predictions, an audit row and the outbound mail.
+ */
+import { and, desc, eq } from 'drizzle-orm';
+import { db } from './db';
+import { projects, reviewEvents, type Requirement } from './db/schema';
+import { DomainError } from './api';
+import { recordAudit } from './audit';
+import { enqueueMail, type Mail } from './mail';
+import * as people from './people';
+import { escapeHtml } from './people';
+import * as projectsDomain from './projects';
+import type { ModelRecord } from './project-predictions';
+import type { Prediction, Verdict } from './projects';
+import { checkTransition, ACTION_DONE, STATE_LABEL, isReviewState, type ReviewAction, type ReviewState } from '$lib/review-transitions';
+import type { ReviewResource } from '$lib/permissions';
+import { formatSI, formatTemperature } from '$lib/junction/units';
+
+export type SnapshotEntry = {
+	partId: number;
+	partNumber: string;
+	maker: string;
+	kind: string;
+	note: string;
+	addedBy: string | null;
+	modelVersion: number;
+	/** The typical model as it stood, so exports reproduce the decision. */
+	model: ModelRecord | null;
+	prediction: Prediction | null;
+	verdict: Verdict | null;
+};
+export type Snapshot = { requirement: Requirement; entries: SnapshotEntry[] };
+
+export type ReviewEvent = Omit<typeof reviewEvents.$inferSelect, 'snapshot'> & { snapshot: Snapshot; actorName: string };
+
+export async function events(projectId: number): Promise<ReviewEvent[]> {
+	const rows = await db.select().from(reviewEvents).where(eq(reviewEvents.projectId, projectId)).orderBy(desc(reviewEvents.at), desc(reviewEvents.id));
+	const names = new Map<string, string>();
+	for (const id of new Set(rows.map((r) => r.actorId).filter((x): x is string => !!x))) {
+		const p = await people.findById(id);
+		if (p) names.set(id, p.name);
+	}
+	return rows.map((r) => ({ ...r, snapshot: r.snapshot as Snapshot, actorName: r.actorId ? (names.get(r.actorId) ?? 'someone') : 'someone (since removed)' }));
+}
+
+/** Who sent the current round for review (the latest submission), if any. */
+export function submitterOf(evts: ReviewEvent[]): string | null {
+	return evts.find((e) => e.action === 'submit')?.actorId ?? null;
+}
+
+/** The latest decision (approve, request changes, decline), if any. */
+export function latestDecision(evts: ReviewEvent[]): ReviewEvent | null {
+	return evts.find((e) => e.action !== 'submit') ?? null;
+}
+
+export function resourceOf(project: projectsDomain.Project, evts: ReviewEvent[]): ReviewResource {
+	return { leadId: project.leadId, submittedBy: project.state === 'in-review' ? submitterOf(evts) : null };
+}
+
+async function snapshotOf(project: projectsDomain.Project): Promise<Snapshot> {
+	const { entries: current, models } = await projectsDomain.evaluate(project);
+	const versions = new Map((await projectsDomain.entryRows(project.id)).map((r) => [r.partId, r.modelVersion]));
+	return {
+		requirement: project.requirement,
+		entries: current.map((e) => ({
+			partId: e.partId,
+			partNumber: e.partNumber,
+			maker: e.maker,
+			kind: e.kind,
+			note: e.note,
+			addedBy: e.addedBy?.name ?? null,
+			modelVersion: e.prediction?.modelVersion ?? versions.get(e.partId) ?? 0,
+			model: models.get(e.partId) ?? null,
+			prediction: e.prediction,
+			verdict: e.verdict
+		}))
+	};
+}
+
+export type TransitionInput = { action: ReviewAction; comment: string; expectedVersion?: number };
+
+/**
+ * Moves the project along the review: checks the person (403) and the state (409), then
+ * writes everything in one transaction whose update only succeeds if nobody acted first.
+ */
+export async function transition(projectId: number, input: TransitionInput, actor: App.User, origin: string) {
+	const project = await projectsDomain.find(projectId);
+	const evts = await events(projectId);
+	const check = checkTransition(actor, input.action, project.state, resourceOf(project, evts));
+	if (!check.ok) throw new DomainError(check.status, check.reason);
+	if (input.expectedVersion !== undefined && input.expectedVersion !== project.version) {
+		throw new DomainError(409, 'The project changed since you opened it; reload to see the latest before deciding.');
+	}
+	const snapshot = await snapshotOf(project);
+	if (input.action === 'submit' && snapshot.entries.length === 0) {
+		throw new DomainError(409, 'Add at least one part to the shortlist before sending it for review.');
+	}
+	const from = project.state as ReviewState;
+	const to = check.to;
+	const submitter = input.action === 'submit' ? actor.id : submitterOf(evts);
+
+	return db.transaction(async (tx) => {
+		const updated = await tx
+			.update(projects)
+			.set({ state: to, version: project.version + 1 })
+			.where(and(eq(projects.id, projectId), eq(projects.state, from), eq(projects.version, project.version)))
+			.returning({ version: projects.version });
+		if (updated.length !== 1) {
+			throw new DomainError(409, 'Someone acted on this project a moment ago; reload to see what was decided.');
+		}
+		const [event] = await tx
+			.insert(reviewEvents)
+			.values({ projectId, action: input.action, fromState: from, toState: to, projectVersion: updated[0].version, comment: input.comment, actorId: actor.id, snapshot })
+			.returning();
+		await recordAudit(tx, {
+			actorId: actor.id,
+			action: `review.${input.action}`,
+			entity: 'project',
+			entityId: projectId,
+			detail: { from, to, comment: input.comment, eventId: event.id }
+		});
+		const link = `${origin.replace(/\/$/, '')}/projects/${projectId}`;
+		let recipients: { email: string; name: string }[];
+		if (input.action === 'submit') {
+			recipients = project.leadId ? [await people.findById(project.leadId, tx)].filter((p): p is people.Person => !!p) : await people.listWithRole('lead', tx);
+		} else {
+			const list = await projectsDomain.members(projectId, tx);
+			const sub = submitter ? await people.findById(submitter, tx) : null;
+			recipients = sub ? [sub, ...list] : list;
+		}
+		const seen = new Set<string>([actor.email]);
+		for (const r of recipients) {
+			if (seen.has(r.email)) continue;
+			seen.add(r.email);
+			await enqueueMail(tx, composeMail({ to: r, actor, project, action: input.action, toState: to, comment: input.comment, snapshot, link }));
+		}
+		return { id: event.id, state: to, version: updated[0].version };
+	});
+}
+
+function describeRequirement(r: Requirement): string {
+	const t = r.temperatureRangeC ? `${formatTemperature(r.temperatureRangeC[0])} to ${formatTemperature(r.temperatureRangeC[1])}` : formatTemperature(r.temperatureC ?? 25);
+	const bits = [`bias ${formatSI(r.biasV, 'V')}`, t];
+	if (r.leakageTargetA !== undefined) bits.push(`leakage target ${formatSI(r.leakageTargetA, 'A')}`);
+	if (r.clampCurrentA !== undefined) bits.push(`clamp ${formatSI(r.clampCurrentA, 'A')}`);
+	if (r.maxForwardDropV !== undefined) bits.push(`drop limit ${formatSI(r.maxForwardDropV, 'V')}`);
+	return bits.join(', ');
+}
+
+function entryLine(e: SnapshotEntry): string {
+	if (!e.prediction || !e.verdict) return `${e.maker} ${e.partNumber}: no prediction (model missing)`;
+	const v = e.verdict;
+	const verdictWord = v.overall === 'pass' ? 'meets the requirement' : v.overall === 'fail' ? 'misses the requirement' : 'no limits to compare';
+	return `${e.maker} ${e.partNumber}: worst leakage ${formatSI(e.prediction.leakageA.worst, 'A')}${v.drop.worstV !== undefined ? `, worst drop ${formatSI(v.drop.worstV, 'V')}` : ''} — ${verdictWord}`;
+}
+
+export function composeMail(m: {
+	to: { email: string; name: string };
+	actor: { name: string };
+	project: { id: number; name: string };
+	action: ReviewAction;
+	toState: ReviewState;
+	comment: string;
+	snapshot: Snapshot;
+	link: string;
+}): Mail {
+	const subject =
+		m.action === 'submit'
+			? `Shortlist for “${m.project.name}” awaits your decision`
+			: `Shortlist for “${m.project.name}” ${ACTION_DONE[m.action]} by ${m.actor.name}`;
+	const lead =
+		m.action === 'submit'
+			? `${m.actor.name} has sent the shortlist of “${m.project.name}” for your decision.`
+			: `${m.actor.name} has ${ACTION_DONE[m.action]} the shortlist of “${m.project.name}”. It is now: ${STATE_LABEL[m.toState].toLowerCase()}.`;
+	const lines = m.snapshot.entries.map(entryLine);
+	const text = [
+		`Hello ${m.to.name},`,
+		'',
+		lead,
+		m.comment ? `\nComment:\n${m.comment}\n` : '',
+		`Requirement: ${describeRequirement(m.snapshot.requirement)}`,
+		'',
+		'Shortlist at this moment:',
+		...lines.map((l) => `  - ${l}`),
+		'',
+		`Open the project: ${m.link}`,
+		'',
+		'Predictions are model estimates from bench measurements of particular samples, not guarantees.'
+	].join('\n');
+	const html = `<p>Hello ${escapeHtml(m.to.name)},</p><p>${escapeHtml(lead)}</p>${m.comment ? `<blockquote>${escapeHtml(m.comment).replace(/\n/g, '<br>')}</blockquote>` : ''}<p>Requirement: ${escapeHtml(describeRequirement(m.snapshot.requirement))}</p><ul>${lines.map((l) => `<li>${escapeHtml(l)}</li>`).join('')}</ul><p><a href="${escapeHtml(m.link)}">Open the project</a></p><p><small>Predictions are model estimates from bench measurements of particular samples, not guarantees.</small></p>`;
+	return { to: m.to.email, subject, text, html };
+}
+
+/** Entries whose part model changed since the snapshot: old and new side by side. */
+export type ChangedEntry = { partId: number; partNumber: string; then: SnapshotEntry; now: projectsDomain.Entry | null };
+
+export function changedSince(snapshot: Snapshot, current: projectsDomain.Entry[]): ChangedEntry[] {
+	const byPart = new Map(current.map((e) => [e.partId, e]));
+	const out: ChangedEntry[] = [];
+	for (const then of snapshot.entries) {
+		const now = byPart.get(then.partId) ?? null;
+		const nowVersion = now?.prediction?.modelVersion;
+		if (now && nowVersion !== undefined && nowVersion !== then.modelVersion) out.push({ partId: then.partId, partNumber: then.partNumber, then, now });
+	}
+	return out;
+}
+
+export function isDecided(state: string): boolean {
+	return isReviewState(state) && (state === 'approved' || state === 'declined');
+}
+

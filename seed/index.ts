@@ -9,6 +9,13 @@ try {
 		if (!(await people.findByEmail(p.email))) await people.upsert(p, null);
 	}
 	console.log(`\x1b[2m[junctionary]\x1b[0m demo people ready (${DEMO_PEOPLE.map((p) => p.email).join(', ')})`);
+	const { loadDemoCatalogue } = await import('./catalogue/load');
+	const librarian = await people.findByEmail('librarian@demo.test');
+	const started = Date.now();
+	const loaded = await loadDemoCatalogue(librarian ? { id: librarian.id } : null);
+	console.log(
+		`\x1b[2m[junctionary]\x1b[0m demo catalogue ready (${loaded.parts} parts and ${loaded.runs} runs added, ${loaded.skipped} runs already there; ${((Date.now() - started) / 1000).toFixed(1)} s)`
+	);
 } finally {
 	await client.end();
 }

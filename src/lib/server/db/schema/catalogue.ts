@@ -132,7 +132,13 @@ export const runs = pgTable(
 	]
 );
 
-export type FitInterval = { IS: [number, number]; N: [number, number]; RS: [number, number] };
+export type FitInterval = {
+	IS: [number, number];
+	N: [number, number];
+	RS: [number, number];
+	RSH?: [number, number];
+	EG?: [number, number];
+};
 export type FitQuality = { points: number; rejected: number; rmsResidualV: number };
 export type FitRange = {
 	currentA: [number, number];

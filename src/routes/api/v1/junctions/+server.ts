@@ -1,19 +1,20 @@
 import { json } from '@sveltejs/kit';
-import { desc } from 'drizzle-orm';
-import { endpoint } from '$lib/server/api';
+import { DomainError, endpoint, readJson, zodIssues } from '$lib/server/api';
 import { requirePermission } from '$lib/server/guards';
-import { db } from '$lib/server/db';
-import { parts } from '$lib/server/db/schema';
-import { fail } from '$lib/server/http-error';
+import * as catalogue from '$lib/server/catalogue';
+import { catalogueQuery, partInput } from '$lib/schemas/catalogue';
 
-// Placeholder until the catalogue lands: lists parts, refuses creation politely.
 export const GET = endpoint(async (event) => {
 	requirePermission(event, 'catalogue:read');
-	const rows = await db.select().from(parts).orderBy(desc(parts.id)).limit(50);
-	return json({ items: rows, nextCursor: null });
+	const parsed = catalogueQuery.safeParse(Object.fromEntries(event.url.searchParams));
+	if (!parsed.success) throw new DomainError(400, 'The query parameters are not valid.', zodIssues(parsed.error));
+	return json(await catalogue.list(parsed.data));
 });
 
 export const POST = endpoint(async (event) => {
-	requirePermission(event, 'catalogue:write');
-	fail(422, 'Creating parts is not available yet.');
+	const user = requirePermission(event, 'catalogue:write');
+	const input = await readJson(event, partInput);
+	const part = await catalogue.create(user, input);
+	const d = await catalogue.detail(part.id);
+	return json(catalogue.present(part, d?.model ?? null), { status: 201 });
 });

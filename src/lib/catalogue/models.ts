@@ -1,0 +1,100 @@
+// Conversions between the catalogue's stored models (SPICE names, optional keys) and the
+// engine's complete models, plus the flags every screen shows in words.
+import { createModel, currentAtBias, scaleModel, type JunctionMaterial, type JunctionModel } from '$lib/junction';
+import type { StoredModel } from '$lib/server/db/schema/catalogue';
+import type { JunctionKind, Material } from './vocabulary';
+
+export type { StoredModel };
+
+/**
+ * Activation energies the catalogue assumes when the engine has no default and the part
+ * gives none: germanium 0.67 eV and a visible LED's ≈1.9 eV (textbook band gaps, e.g.
+ * Sze & Ng, Physics of Semiconductor Devices, 3rd ed., Appendix G). Shown as assumed.
+ */
+export const ASSUMED_EG: Partial<Record<Material, number>> = { germanium: 0.67, 'wide-gap': 1.9 };
+
+/** The engine's material for a catalogue material. Germanium is a PN junction with its own EG. */
+export function engineMaterial(material: Material): JunctionMaterial {
+	if (material === 'metal-semiconductor') return 'schottky';
+	if (material === 'wide-gap') return 'wide-gap';
+	return 'silicon';
+}
+
+/** EG to hand the engine when the data cannot determine it, or undefined for the engine's default. */
+export function egFor(material: Material, given?: StoredModel | null): number | undefined {
+	return given?.EG ?? ASSUMED_EG[material];
+}
+
+const KEYS = ['IS', 'N', 'RS', 'RSH', 'ISR', 'NR', 'BV', 'IBV', 'EG', 'XTI', 'TNOM', 'CJO', 'VJ', 'M', 'FC'] as const;
+
+/** A complete engine model from a stored one. @throws RangeError from the engine for invalid values. */
+export function toEngine(stored: StoredModel, material: Material): JunctionModel {
+	const input: Record<string, number> = {};
+	for (const k of KEYS) if (stored[k] !== undefined && stored[k] !== null) input[k] = stored[k] as number;
+	if (input.EG === undefined && ASSUMED_EG[material] !== undefined) input.EG = ASSUMED_EG[material] as number;
+	return createModel(input as unknown as JunctionModel, engineMaterial(material));
+}
+
+/** The stored form of an engine model: the parameters that carry information. */
+export function toStored(m: JunctionModel): StoredModel {
+	const out: StoredModel = { IS: m.IS, N: m.N, RS: m.RS, EG: m.EG, XTI: m.XTI, TNOM: m.TNOM };
+	if (m.RSH !== undefined) out.RSH = m.RSH;
+	if (m.ISR !== undefined) (out.ISR = m.ISR), (out.NR = m.NR);
+	if (m.BV !== undefined) (out.BV = m.BV), (out.IBV = m.IBV);
+	if (m.CJO !== undefined) (out.CJO = m.CJO), (out.VJ = m.VJ), (out.M = m.M), (out.FC = m.FC);
+	return out;
+}
+
+/** The bias at which samples are compared for "worst" (highest leakage): −1 V at 25 °C. */
+export const LEAKAGE_PROBE = { biasV: -1, temperatureC: 25 };
+
+/** |I| at a bias and temperature, or NaN when the model cannot be evaluated. */
+export function currentMagnitude(stored: StoredModel, material: Material, biasV: number, temperatureC: number): number {
+	try {
+		return Math.abs(currentAtBias(scaleModel(toEngine(stored, material), temperatureC), biasV));
+	} catch {
+		return NaN;
+	}
+}
+
+export type PartFacts = {
+	kind: JunctionKind;
+	material: Material;
+	admitsLight: boolean;
+	isMeasured: boolean;
+	hasModel: boolean;
+	sampleCount: number;
+	reverseMeasured: boolean;
+};
+
+/** Cautions about a part in plain words; screens list them beside the model. */
+export function partFlags(p: PartFacts): { code: string; text: string }[] {
+	const flags: { code: string; text: string }[] = [];
+	if (!p.hasModel) flags.push({ code: 'no-model', text: 'No model yet: neither a measured sweep nor a given card.' });
+	else if (!p.isMeasured)
+		flags.push({
+			code: 'unmeasured',
+			text: 'The model comes from a card or datasheet, not from our bench: nothing here has been measured.'
+		});
+	if (p.hasModel && !p.reverseMeasured)
+		flags.push({
+			code: 'reverse-not-measured',
+			text: 'Reverse leakage was never measured; leakage figures are only the ideal-diode floor (IS) and real parts may leak far more.'
+		});
+	if (p.isMeasured && p.sampleCount < 3)
+		flags.push({
+			code: 'few-samples',
+			text: `Only ${p.sampleCount} sample${p.sampleCount === 1 ? '' : 's'} measured; fewer than three says little about part-to-part spread.`
+		});
+	if (p.material === 'metal-semiconductor' || p.kind === 'schottky')
+		flags.push({
+			code: 'metal-semiconductor',
+			text: 'Metal–semiconductor junction: the Shockley model is only an empirical fit here, and leakage climbs with reverse bias.'
+		});
+	if (p.admitsLight || p.kind === 'led')
+		flags.push({
+			code: 'light',
+			text: 'Glass or clear package, or an LED: ambient light makes photocurrent that can exceed the dark leakage. Shield it.'
+		});
+	return flags;
+}

@@ -1,0 +1,43 @@
+// The catalogue's words, importable by browser code (the Drizzle schema is server-only).
+// The type checks at the bottom keep these lists equal to the schema's.
+import type { JunctionKind as SchemaKind, Lifecycle as SchemaLifecycle, Material as SchemaMaterial } from '$lib/server/db/schema/catalogue';
+
+export const JUNCTION_KINDS = ['diode', 'schottky', 'bjt-be', 'bjt-diode', 'jfet-gate', 'led'] as const;
+export type JunctionKind = (typeof JUNCTION_KINDS)[number];
+export const LIFECYCLES = ['in-use', 'not-for-new', 'retired'] as const;
+export type Lifecycle = (typeof LIFECYCLES)[number];
+export const MATERIALS = ['silicon', 'metal-semiconductor', 'germanium', 'wide-gap'] as const;
+export type Material = (typeof MATERIALS)[number];
+
+export const KIND_LABEL: Record<JunctionKind, string> = {
+	diode: 'PN diode',
+	schottky: 'Schottky diode',
+	'bjt-be': 'BJT base–emitter',
+	'bjt-diode': 'Diode-connected BJT',
+	'jfet-gate': 'JFET gate junction',
+	led: 'LED'
+};
+export const LIFECYCLE_LABEL: Record<Lifecycle, string> = {
+	'in-use': 'In use',
+	'not-for-new': 'Not for new designs',
+	retired: 'Retired'
+};
+export const MATERIAL_LABEL: Record<Material, string> = {
+	silicon: 'Silicon PN',
+	'metal-semiconductor': 'Metal–semiconductor',
+	germanium: 'Germanium',
+	'wide-gap': 'Wide band-gap'
+};
+/** The material a kind usually has, used when a part is created without one. */
+export const DEFAULT_MATERIAL: Record<JunctionKind, Material> = {
+	diode: 'silicon',
+	schottky: 'metal-semiconductor',
+	'bjt-be': 'silicon',
+	'bjt-diode': 'silicon',
+	'jfet-gate': 'silicon',
+	led: 'wide-gap'
+};
+
+type Same<A, B> = [A] extends [B] ? ([B] extends [A] ? true : false) : false;
+const check: [Same<JunctionKind, SchemaKind>, Same<Lifecycle, SchemaLifecycle>, Same<Material, SchemaMaterial>] = [true, true, true];
+void check;

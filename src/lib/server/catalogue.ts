@@ -1,0 +1,323 @@
+// The parts catalogue: creating and changing parts, samples and given models; listings.
+import { and, asc, desc, eq, gt, ilike, or, sql, type SQL } from 'drizzle-orm';
+import { emitModelCard, parseModelCard } from '$lib/junction';
+import { DEFAULT_MATERIAL, type JunctionKind, type Material } from '$lib/catalogue/vocabulary';
+import { partFlags, toEngine } from '$lib/catalogue/models';
+import type { PartInput, PartPatch } from '$lib/schemas/catalogue';
+import { DomainError } from './api';
+import { recordAudit } from './audit';
+import { db, type DbOrTx } from './db';
+import { fits, partModels, parts, runs, samples, type StoredModel } from './db/schema';
+import { rebuildPartModel } from './part-models';
+
+type Actor = { id: string } | null;
+export type Part = typeof parts.$inferSelect;
+export type PartModelRow = typeof partModels.$inferSelect;
+
+/** A given model must be one the engine accepts; its complaint names the parameter. */
+function checkModel(model: StoredModel, material: Material, path = 'model'): void {
+	try {
+		toEngine(model, material);
+	} catch (e) {
+		throw new DomainError(400, `The model is not valid: ${(e as Error).message}.`, [{ path, message: (e as Error).message }]);
+	}
+}
+
+function uniqueViolation(e: unknown): boolean {
+	return (e as { code?: string })?.code === '23505';
+}
+
+function duplicatePart(maker: string, partNumber: string) {
+	return new DomainError(409, `${maker} ${partNumber} is already in the catalogue.`, [{ path: 'partNumber', message: 'this maker already has this part number' }]);
+}
+
+function rowFromInput(input: PartInput | PartPatch, kind: JunctionKind | undefined): Partial<typeof parts.$inferInsert> {
+	const out: Partial<typeof parts.$inferInsert> = {};
+	if (input.partNumber !== undefined) out.partNumber = input.partNumber;
+	if (input.maker !== undefined) out.maker = input.maker;
+	if (input.kind !== undefined) out.kind = input.kind;
+	if (input.package !== undefined) out.package = input.package;
+	if (input.material !== undefined) out.material = input.material;
+	else if ('kind' in input && input.kind && kind) out.material = DEFAULT_MATERIAL[kind];
+	if (input.admitsLight !== undefined) out.admitsLight = input.admitsLight;
+	if (input.anodePins !== undefined) out.anodePins = input.anodePins;
+	if (input.cathodePins !== undefined) out.cathodePins = input.cathodePins;
+	if (input.ratings !== undefined) {
+		out.ratedReverseV = input.ratings.reverseV ?? null;
+		out.ratedForwardA = input.ratings.forwardA ?? null;
+		out.ratedJunctionC = input.ratings.junctionC ?? null;
+	}
+	if (input.tags !== undefined) out.tags = [...new Set(input.tags.map((t) => t.toLowerCase()))];
+	if (input.notes !== undefined) out.notes = input.notes;
+	if (input.lifecycle !== undefined) out.lifecycle = input.lifecycle;
+	return out;
+}
+
+export async function create(actor: Actor, input: PartInput): Promise<Part> {
+	const material = input.material ?? DEFAULT_MATERIAL[input.kind];
+	if (input.model) checkModel(input.model, material);
+	try {
+		return await db.transaction(async (tx) => {
+			const [part] = await tx
+				.insert(parts)
+				.values({
+					...(rowFromInput(input, input.kind) as typeof parts.$inferInsert),
+					material,
+					admitsLight: input.admitsLight ?? input.kind === 'led',
+					givenModel: input.model ?? null,
+					givenModelSource: input.model ? (input.modelSource ?? 'given with the part') : null,
+					createdBy: actor?.id ?? null
+				})
+				.returning();
+			if (input.model) await rebuildPartModel(tx, part.id);
+			await recordAudit(tx, { actorId: actor?.id ?? null, action: 'part.create', entity: 'part', entityId: part.id, detail: { partNumber: part.partNumber, maker: part.maker, givenModel: Boolean(input.model) } });
+			const [fresh] = await tx.select().from(parts).where(eq(parts.id, part.id));
+			return fresh;
+		});
+	} catch (e) {
+		if (uniqueViolation(e)) throw duplicatePart(input.maker, input.partNumber);
+		throw e;
+	}
+}
+
+export async function update(actor: Actor, id: number, patch: PartPatch): Promise<Part> {
+	const existing = await get(id);
+	if (!existing) throw new DomainError(404, `No part ${id}.`);
+	const material = patch.material ?? existing.material;
+	if (patch.model) checkModel(patch.model, material as Material);
+	try {
+		return await db.transaction(async (tx) => {
+			const set = rowFromInput(patch, undefined);
+			const modelChanged = patch.model !== undefined || patch.material !== undefined || patch.kind !== undefined || patch.admitsLight !== undefined || patch.ratings !== undefined;
+			if (patch.model !== undefined) {
+				set.givenModel = patch.model;
+				set.givenModelSource = patch.model ? (patch.modelSource ?? 'given by a librarian') : null;
+			} else if (patch.modelSource !== undefined) set.givenModelSource = patch.modelSource;
+			if (Object.keys(set).length) await tx.update(parts).set(set).where(eq(parts.id, id));
+			if (modelChanged) await rebuildPartModel(tx, id);
+			await recordAudit(tx, { actorId: actor?.id ?? null, action: 'part.update', entity: 'part', entityId: id, detail: { fields: Object.keys(patch) } });
+			const [fresh] = await tx.select().from(parts).where(eq(parts.id, id));
+			return fresh;
+		});
+	} catch (e) {
+		if (uniqueViolation(e)) throw duplicatePart(patch.maker ?? existing.maker, patch.partNumber ?? existing.partNumber);
+		throw e;
+	}
+}
+
+/** Reads a SPICE `.model` card and keeps it as the part's given model, with its source. */
+export async function importModelCard(actor: Actor, id: number, cardText: string, source: string) {
+	const part = await get(id);
+	if (!part) throw new DomainError(404, `No part ${id}.`);
+	let parsed;
+	try {
+		parsed = parseModelCard(cardText);
+	} catch (e) {
+		throw new DomainError(400, `The card cannot be read: ${(e as Error).message}.`, [{ path: 'card', message: (e as Error).message }]);
+	}
+	const stored: StoredModel = { IS: parsed.model.IS, N: parsed.model.N };
+	for (const k of parsed.given) {
+		const v = (parsed.model as unknown as Record<string, number>)[k];
+		if (k !== 'shuntFactorPer10K' && typeof v === 'number') (stored as Record<string, number>)[k] = v;
+	}
+	checkModel(stored, part.material as Material, 'card');
+	const src = source.trim() || `.model ${parsed.name}`;
+	await db.transaction(async (tx) => {
+		await tx.update(parts).set({ givenModel: stored, givenModelSource: src }).where(eq(parts.id, id));
+		await rebuildPartModel(tx, id);
+		await recordAudit(tx, { actorId: actor?.id ?? null, action: 'part.model-card', entity: 'part', entityId: id, detail: { name: parsed.name, source: src, warnings: parsed.warnings } });
+	});
+	return { name: parsed.name, model: stored, warnings: parsed.warnings };
+}
+
+export async function addSample(actor: Actor, partId: number, input: { unit: string; lot: string; dateCode: string }) {
+	const part = await get(partId);
+	if (!part) throw new DomainError(404, `No part ${partId}.`);
+	try {
+		return await db.transaction(async (tx) => {
+			const [s] = await tx.insert(samples).values({ partId, ...input }).returning();
+			await recordAudit(tx, { actorId: actor?.id ?? null, action: 'sample.create', entity: 'sample', entityId: s.id, detail: { partId, unit: input.unit } });
+			return s;
+		});
+	} catch (e) {
+		if (uniqueViolation(e)) throw new DomainError(409, `This part already has a sample labelled ${input.unit}.`, [{ path: 'unit', message: 'label already used for this part' }]);
+		throw e;
+	}
+}
+
+export async function get(id: number, tx: DbOrTx = db): Promise<Part | null> {
+	const [p] = await tx.select().from(parts).where(eq(parts.id, id));
+	return p ?? null;
+}
+
+/** Everything the part page and GET /api/v1/junctions/{id} show. */
+export async function detail(id: number) {
+	const part = await get(id);
+	if (!part) return null;
+	const [model] = await db.select().from(partModels).where(eq(partModels.partId, id));
+	const sampleRows = await db.select().from(samples).where(eq(samples.partId, id)).orderBy(asc(samples.unit));
+	const runRows = await db
+		.select({
+			id: runs.id,
+			sampleId: runs.sampleId,
+			temperatureC: runs.temperatureC,
+			direction: runs.direction,
+			fileName: runs.fileName,
+			sha256: runs.fileSha256,
+			points: runs.points,
+			createdAt: runs.createdAt,
+			fit: { model: fits.model, interval: fits.interval, quality: fits.quality, range: fits.range, excludedV: fits.excludedV }
+		})
+		.from(runs)
+		.leftJoin(fits, eq(fits.runId, runs.id))
+		.where(eq(runs.partId, id))
+		.orderBy(asc(runs.id));
+	return { part, model: model ?? null, samples: sampleRows, runs: runRows };
+}
+
+/** The API's representation of a part (SI units, °C). */
+export function present(part: Part, model?: PartModelRow | null) {
+	return {
+		id: part.id,
+		partNumber: part.partNumber,
+		maker: part.maker,
+		kind: part.kind,
+		package: part.package,
+		material: part.material,
+		admitsLight: part.admitsLight,
+		pins: { anode: part.anodePins, cathode: part.cathodePins },
+		ratings: { reverseV: part.ratedReverseV, forwardA: part.ratedForwardA, junctionC: part.ratedJunctionC },
+		tags: part.tags,
+		lifecycle: part.lifecycle,
+		notes: part.notes,
+		givenModel: part.givenModel,
+		givenModelSource: part.givenModelSource,
+		modelVersion: part.modelVersion,
+		createdAt: part.createdAt,
+		updatedAt: part.updatedAt,
+		...(model !== undefined
+			? {
+					model: model
+						? {
+								typical: model.typical,
+								worst: model.worst,
+								sampleModels: model.sampleModels,
+								spread: model.spread,
+								measured: model.measured,
+								sampleCount: model.sampleCount,
+								isMeasured: model.isMeasured,
+								version: model.version
+							}
+						: null,
+					flags: partFlags({
+						kind: part.kind,
+						material: part.material,
+						admitsLight: part.admitsLight,
+						isMeasured: model?.isMeasured ?? false,
+						hasModel: Boolean(model),
+						sampleCount: model?.sampleCount ?? 0,
+						reverseMeasured: model?.measured.reverseMeasured ?? false
+					})
+				}
+			: {})
+	};
+}
+
+/** Paged listing for the API: id order, cursor = last id of the previous page. */
+export async function list(opts: { q: string; kind?: JunctionKind; limit: number; cursor?: string }) {
+	const where: SQL[] = [];
+	if (opts.cursor) where.push(gt(parts.id, Number(opts.cursor)));
+	if (opts.kind) where.push(eq(parts.kind, opts.kind));
+	if (opts.q) {
+		const like = `%${opts.q.replace(/[\\%_]/g, (c) => '\\' + c)}%`;
+		where.push(or(ilike(parts.partNumber, like), ilike(parts.maker, like), sql`exists (select 1 from unnest(${parts.tags}) t where t ilike ${like})`) as SQL);
+	}
+	const rows = await db
+		.select({ part: parts, model: partModels })
+		.from(parts)
+		.leftJoin(partModels, eq(partModels.partId, parts.id))
+		.where(where.length ? and(...where) : undefined)
+		.orderBy(asc(parts.id))
+		.limit(opts.limit + 1);
+	const more = rows.length > opts.limit;
+	const page = rows.slice(0, opts.limit);
+	return { items: page.map((r) => present(r.part, r.model)), nextCursor: more ? String(page[page.length - 1].part.id) : null };
+}
+
+/** One catalogue row as the search page needs it: short keys, typical figures only. */
+export type CompactPart = {
+	id: number;
+	pn: string;
+	mk: string;
+	kind: JunctionKind;
+	pkg: string;
+	mat: Material;
+	life: string;
+	tags: string[];
+	/** Typical IS [A], N, RS [Ω], RSH [Ω] or null. */
+	is: number | null;
+	n: number | null;
+	rs: number | null;
+	rsh: number | null;
+	/** Samples measured; −1 when the model is given, not measured; null without a model. */
+	samples: number | null;
+	vr: number | null;
+	updated: number;
+};
+
+/** Every part in a compact form, loaded once by the catalogue page for in-browser search. */
+export async function compactList(): Promise<CompactPart[]> {
+	const rows = await db
+		.select({
+			id: parts.id,
+			pn: parts.partNumber,
+			mk: parts.maker,
+			kind: parts.kind,
+			pkg: parts.package,
+			mat: parts.material,
+			life: parts.lifecycle,
+			tags: parts.tags,
+			typical: partModels.typical,
+			sampleCount: partModels.sampleCount,
+			isMeasured: partModels.isMeasured,
+			vr: parts.ratedReverseV,
+			updated: parts.updatedAt
+		})
+		.from(parts)
+		.leftJoin(partModels, eq(partModels.partId, parts.id))
+		.orderBy(desc(parts.updatedAt));
+	return rows.map((r) => ({
+		id: r.id,
+		pn: r.pn,
+		mk: r.mk,
+		kind: r.kind,
+		pkg: r.pkg,
+		mat: r.mat,
+		life: r.life,
+		tags: r.tags,
+		is: r.typical?.IS ?? null,
+		n: r.typical?.N ?? null,
+		rs: r.typical?.RS ?? null,
+		rsh: r.typical?.RSH ?? null,
+		samples: r.typical ? (r.isMeasured ? (r.sampleCount ?? 0) : -1) : null,
+		vr: r.vr,
+		updated: r.updated.getTime()
+	}));
+}
+
+/** The part's typical model as a SPICE card (catalogue extensions included unless forSimulator). */
+export async function spiceCard(id: number, forSimulator = false): Promise<{ name: string; text: string } | null> {
+	const d = await detail(id);
+	if (!d || !d.model) return null;
+	const name = `${d.part.maker}_${d.part.partNumber}`.replace(/[^\w.+-]/g, '_').replace(/^[^A-Za-z_]/, 'J_$&');
+	const m = toEngine(d.model.typical, d.part.material);
+	const head = [
+		`* ${d.part.maker} ${d.part.partNumber} (${d.part.kind}) — Junctionary model version ${d.model.version}`,
+		d.model.isMeasured
+			? `* typical (median) of ${d.model.sampleCount} measured sample(s); measured at ${d.model.measured.temperaturesC.join(', ')} °C`
+			: `* not measured: given model (${d.part.givenModelSource ?? 'source not recorded'})`,
+		'* A model estimate from bench measurements of particular samples, not a guarantee.'
+	];
+	return { name, text: head.join('\n') + '\n' + emitModelCard(name, m, { forSimulator }) + '\n' };
+}
+

@@ -1,0 +1,114 @@
+// Rebuilds a part's aggregate model row (part_models) from its fits or its given model.
+// Called inside the transaction that changed a fit, a sample or the given model.
+import { asc, eq, sql } from 'drizzle-orm';
+import type { DbOrTx } from './db';
+import { fits, partModels, parts, runs, type StoredModel } from './db/schema';
+import { notifyModelChanged } from './model-events';
+import { currentMagnitude, LEAKAGE_PROBE } from '$lib/catalogue/models';
+import type { Material } from '$lib/catalogue/vocabulary';
+
+/** The run temperature each sample is represented by: the one nearest SPICE's TNOM default. */
+export const NOMINAL_C = 27;
+
+function median(xs: number[]): number {
+	const s = [...xs].sort((a, b) => a - b);
+	const m = s.length >> 1;
+	return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+type SampleFit = { sampleId: number; model: StoredModel; rms: number };
+
+/** Median of every parameter over samples (each parameter on its own), and min–max spread. */
+export function aggregate(models: StoredModel[]): { typical: StoredModel; spread: Record<string, [number, number]> } {
+	const keys = new Set<string>();
+	for (const m of models) for (const k of Object.keys(m)) keys.add(k);
+	const typical: Record<string, number> = {};
+	const spread: Record<string, [number, number]> = {};
+	for (const k of keys) {
+		const vals = models.map((m) => (m as Record<string, number | undefined>)[k]).filter((v): v is number => typeof v === 'number');
+		if (vals.length === 0) continue;
+		// RSH (and other optional parts) only when most samples have them: a median over a minority misleads.
+		if (k !== 'IS' && k !== 'N' && vals.length * 2 < models.length) continue;
+		typical[k] = median(vals);
+		spread[k] = [Math.min(...vals), Math.max(...vals)];
+	}
+	return { typical: typical as StoredModel, spread };
+}
+
+/**
+ * Writes (or removes) the part_models row and bumps parts.modelVersion, then announces
+ * the change. Returns the new version, or null when the part has no model at all.
+ */
+export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<number | null> {
+	const [part] = await tx
+		.update(parts)
+		.set({ modelVersion: sql`${parts.modelVersion} + 1` })
+		.where(eq(parts.id, partId))
+		.returning();
+	if (!part) return null;
+	const rows = await tx
+		.select({
+			sampleId: fits.sampleId,
+			model: fits.model,
+			quality: fits.quality,
+			range: fits.range,
+			temperatureC: runs.temperatureC,
+			direction: runs.direction
+		})
+		.from(fits)
+		.innerJoin(runs, eq(runs.id, fits.runId))
+		.where(eq(fits.partId, partId))
+		.orderBy(asc(fits.id));
+	const version = part.modelVersion;
+	const material = part.material as Material;
+
+	if (rows.length === 0) {
+		if (!part.givenModel) {
+			await tx.delete(partModels).where(eq(partModels.partId, partId));
+			await notifyModelChanged(tx, partId);
+			return null;
+		}
+		const given = part.givenModel;
+		const row = {
+			typical: given,
+			worst: given,
+			sampleModels: [given],
+			spread: {},
+			measured: { minCurrentA: null, temperaturesC: [], reverseMeasured: false, worstRmsResidualV: null },
+			sampleCount: 0,
+			isMeasured: false,
+			version
+		};
+		await tx.insert(partModels).values({ partId, ...row }).onConflictDoUpdate({ target: partModels.partId, set: row });
+		await notifyModelChanged(tx, partId);
+		return version;
+	}
+
+	// Per sample: the fit of its run nearest the nominal temperature (earliest on ties).
+	const bySample = new Map<number, SampleFit & { dist: number }>();
+	for (const r of rows) {
+		const dist = Math.abs(r.temperatureC - NOMINAL_C);
+		const cur = bySample.get(r.sampleId);
+		if (!cur || dist < cur.dist) bySample.set(r.sampleId, { sampleId: r.sampleId, model: r.model, rms: r.quality.rmsResidualV, dist });
+	}
+	const sampleFits = [...bySample.values()].sort((a, b) => a.sampleId - b.sampleId);
+	const sampleModels = sampleFits.map((s) => s.model);
+	const { typical, spread } = aggregate(sampleModels);
+	let worst = sampleModels[0];
+	let worstLeak = -Infinity;
+	for (const m of sampleModels) {
+		const leak = currentMagnitude(m, material, LEAKAGE_PROBE.biasV, LEAKAGE_PROBE.temperatureC);
+		if (leak > worstLeak) (worst = m), (worstLeak = leak);
+	}
+	const mins = rows.map((r) => r.range.minAbsCurrentA ?? r.range.currentA[0]).filter((x) => x > 0);
+	const measured = {
+		minCurrentA: mins.length ? Math.min(...mins) : null,
+		temperaturesC: [...new Set(rows.map((r) => Math.round(r.temperatureC * 10) / 10))].sort((a, b) => a - b),
+		reverseMeasured: rows.some((r) => r.direction !== 'forward' || r.range.reverseMeasured === true),
+		worstRmsResidualV: Math.max(...rows.map((r) => r.quality.rmsResidualV))
+	};
+	const row = { typical, worst, sampleModels, spread, measured, sampleCount: sampleModels.length, isMeasured: true, version };
+	await tx.insert(partModels).values({ partId, ...row }).onConflictDoUpdate({ target: partModels.partId, set: row });
+	await notifyModelChanged(tx, partId);
+	return version;
+}

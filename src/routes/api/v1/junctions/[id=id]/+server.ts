@@ -1,0 +1,39 @@
+import { json } from '@sveltejs/kit';
+import { DomainError, endpoint, readJson } from '$lib/server/api';
+import { requirePermission } from '$lib/server/guards';
+import * as catalogue from '$lib/server/catalogue';
+import { partPatch } from '$lib/schemas/catalogue';
+
+async function full(id: number) {
+	const d = await catalogue.detail(id);
+	if (!d) throw new DomainError(404, `No part ${id}.`);
+	const unitOf = new Map(d.samples.map((s) => [s.id, s.unit]));
+	return {
+		...catalogue.present(d.part, d.model),
+		samples: d.samples.map((s) => ({ id: s.id, unit: s.unit, lot: s.lot, dateCode: s.dateCode })),
+		runs: d.runs.map((r) => ({
+			id: r.id,
+			sample: unitOf.get(r.sampleId),
+			temperatureC: r.temperatureC,
+			direction: r.direction,
+			fileName: r.fileName,
+			sha256: r.sha256,
+			pointCount: r.points.length,
+			createdAt: r.createdAt,
+			fit: r.fit,
+			file: `/parts/${id}/runs/${r.id}/file`
+		}))
+	};
+}
+
+export const GET = endpoint(async (event) => {
+	requirePermission(event, 'catalogue:read');
+	return json(await full(Number(event.params.id)));
+});
+
+export const PATCH = endpoint(async (event) => {
+	const user = requirePermission(event, 'catalogue:write');
+	const patch = await readJson(event, partPatch);
+	await catalogue.update(user, Number(event.params.id), patch);
+	return json(await full(Number(event.params.id)));
+});

@@ -345,7 +345,8 @@ function median(xs: number[]): number {
  * Merge one temperature run: cluster points in the same voltage bin (nearest multiple of binWidth), reject currents far from the cluster median, and average the rest.
  * Rejection rule: |I − median| > max(5 robust σ, 30 % of |median|) where σ = 1.4826·MAD
  * (MAD scale for normal data: Rousseeuw & Croux, JASA 88 (1993) 1273).
- * Two points at one voltage that differ by more than ×2 (or in sign) cannot be arbitrated: error.
+ * Two points at one voltage that differ by more than ×2 (or in sign) cannot be arbitrated: error;
+ * likewise three or more whose kept currents still span more than ×3.
  */
 function mergeRun(
 	order: number[],
@@ -417,7 +418,19 @@ function mergeRun(
 				tSum += T[idx];
 				if (I[idx] !== 0) minAbs = Math.min(minAbs, Math.abs(I[idx]));
 			}
-			if (size > 2 && m * 2 < size) {
+			// Even after rejection, kept repeats should agree within a small factor (ranges overlap, noise is %-level).
+			let kmin = Infinity;
+			let kmax = 0;
+			let signs = 0;
+			for (let j = k; j < e; j++) {
+				const x = I[order[j]];
+				if (size > 2 && Math.abs(x - med) > limit) continue;
+				kmin = Math.min(kmin, Math.abs(x));
+				kmax = Math.max(kmax, Math.abs(x));
+				signs |= x > 0 ? 1 : x < 0 ? 2 : 0;
+			}
+			const spread = size > 2 && signs !== 3 && kmax > 3 * kmin;
+			if (size > 2 && (m * 2 < size || spread)) {
 				issues.push({ row: rowOf[order[k]], column: iName, message: `repeated points near ${v0} V disagree too much to average (${size - m} of ${size} far from the median)` });
 			}
 			if (m > 0) {

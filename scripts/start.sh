@@ -17,7 +17,7 @@ export DATABASE_URL="postgres://junctionary@127.0.0.1:$PGPORT/junctionary"
 export SMTP_URL="smtp://127.0.0.1:$MAIL_SMTP_PORT"
 export MAIL_CATCHER_URL="http://127.0.0.1:$MAIL_HTTP_PORT"
 export DEV_MAILBOX=${DEV_MAILBOX:-1}
-export HOST=127.0.0.1 PORT ORIGIN="http://127.0.0.1:$PORT"
+export HOST=127.0.0.1 PORT ORIGIN="http://127.0.0.1:$PORT" BODY_SIZE_LIMIT=${BODY_SIZE_LIMIT:-16M}
 
 cleanup() {
 	trap - INT TERM EXIT

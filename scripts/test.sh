@@ -19,6 +19,7 @@ export DATABASE_URL="postgres://junctionary@127.0.0.1:$PGPORT/junctionary_test"
 export SMTP_URL="smtp://127.0.0.1:$MAIL_SMTP_PORT"
 export MAIL_CATCHER_URL="http://127.0.0.1:$MAIL_HTTP_PORT"
 export DEV_MAILBOX=1
+export BODY_SIZE_LIMIT=${BODY_SIZE_LIMIT:-16M}
 export HOST=127.0.0.1 PORT ORIGIN="http://127.0.0.1:$PORT" APP_URL="http://127.0.0.1:$PORT"
 export NODE_ENV=production
 

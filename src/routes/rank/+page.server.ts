@@ -1,0 +1,46 @@
+import { fail as formFail } from '@sveltejs/kit';
+import { z } from 'zod';
+import { can } from '$lib/permissions';
+import { requirePermission } from '$lib/server/guards';
+import { DomainError } from '$lib/server/api';
+import { rankCatalogue } from '$lib/server/ranking';
+import { deletePreset, listPresets, presetForm, savePreset } from '$lib/server/rank-presets';
+import { fieldsFromQuery, parseFields } from '$lib/rank/operating-point-url';
+import { CURVE_COUNT, RANK_PAGE_ROWS } from './limits';
+import type { Actions, PageServerLoad } from './$types';
+
+
+// The page ranks on the server too, so the GET form works without JavaScript.
+export const load: PageServerLoad = async (event) => {
+	const user = requirePermission(event, 'rank:use');
+	const fields = fieldsFromQuery(event.url.searchParams);
+	const { op, errors } = parseFields(fields);
+	const [result, presets] = await Promise.all([
+		op ? rankCatalogue(op, RANK_PAGE_ROWS, CURVE_COUNT) : Promise.resolve(null),
+		listPresets(user.id)
+	]);
+	return { fields, errors, result, presets, canShortlist: can(user, 'shortlist:edit') };
+};
+
+export const actions: Actions = {
+	savePreset: async (event) => {
+		const user = requirePermission(event, 'rank:use');
+		const form = Object.fromEntries(await event.request.formData());
+		const parsed = presetForm.safeParse(form);
+		if (!parsed.success) return formFail(400, { presetError: parsed.error.issues[0]?.message ?? 'Check the preset.' });
+		try {
+			await savePreset(user.id, parsed.data);
+		} catch (e) {
+			if (e instanceof DomainError) return formFail(e.status, { presetError: e.message });
+			throw e;
+		}
+		return { presetSaved: parsed.data.name };
+	},
+	deletePreset: async (event) => {
+		const user = requirePermission(event, 'rank:use');
+		const id = z.coerce.number().int().positive().safeParse((await event.request.formData()).get('id'));
+		if (!id.success) return formFail(400, { presetError: 'Which preset? The form lost its id.' });
+		await deletePreset(user.id, id.data);
+		return { presetDeleted: true };
+	}
+};

@@ -1,0 +1,67 @@
+// Invented catalogue parts for the ranking tests: parts + part_models rows written
+// directly (as the catalogue would after fitting), announced on the model channel.
+import { inArray } from 'drizzle-orm';
+import { db } from '../../src/lib/server/db';
+import { partModels, parts, type StoredModel } from '../../src/lib/server/db/schema';
+import { notifyModelChanged } from '../../src/lib/server/model-events';
+
+export type TestPart = {
+	partNumber: string;
+	maker?: string;
+	kind?: 'diode' | 'schottky' | 'bjt-be' | 'bjt-diode' | 'jfet-gate' | 'led';
+	package?: string;
+	material?: 'silicon' | 'metal-semiconductor' | 'germanium' | 'wide-gap';
+	admitsLight?: boolean;
+	lifecycle?: 'in-use' | 'not-for-new' | 'retired';
+	ratedReverseV?: number | null;
+	tags?: string[];
+	/** One model per sample (the first is also stored as typical unless `typical` is given). */
+	samples: StoredModel[];
+	typical?: StoredModel;
+	measured?: { minCurrentA: number | null; temperaturesC: number[]; reverseMeasured: boolean; worstRmsResidualV: number | null };
+};
+
+/** A well-measured part: leakage measured to 1 fA at 25, 85 and 125 °C, a good fit. */
+export const WELL_MEASURED = { minCurrentA: 1e-15, temperaturesC: [-40, 25, 85, 125], reverseMeasured: true, worstRmsResidualV: 5e-4 };
+
+export async function createParts(list: TestPart[]): Promise<number[]> {
+	return db.transaction(async (tx) => {
+		const ids: number[] = [];
+		for (const p of list) {
+			const [row] = await tx
+				.insert(parts)
+				.values({
+					partNumber: p.partNumber,
+					maker: p.maker ?? 'Fenwick Semiconductor',
+					kind: p.kind ?? 'diode',
+					package: p.package ?? 'SOD-323',
+					material: p.material ?? 'silicon',
+					admitsLight: p.admitsLight ?? false,
+					lifecycle: p.lifecycle ?? 'in-use',
+					ratedReverseV: p.ratedReverseV === undefined ? 30 : p.ratedReverseV,
+					tags: p.tags ?? []
+				})
+				.returning({ id: parts.id });
+			await tx.insert(partModels).values({
+				partId: row.id,
+				typical: p.typical ?? p.samples[0],
+				sampleModels: p.samples,
+				measured: p.measured ?? WELL_MEASURED,
+				sampleCount: p.samples.length,
+				isMeasured: (p.measured ?? WELL_MEASURED).minCurrentA !== null,
+				version: 1
+			});
+			await notifyModelChanged(tx, row.id);
+			ids.push(row.id);
+		}
+		return ids;
+	});
+}
+
+export async function deleteParts(ids: number[]) {
+	if (ids.length === 0) return;
+	await db.transaction(async (tx) => {
+		await tx.delete(parts).where(inArray(parts.id, ids));
+		for (const id of ids) await notifyModelChanged(tx, id);
+	});
+}

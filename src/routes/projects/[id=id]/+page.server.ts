@@ -1,0 +1,123 @@
+import { error, fail } from '@sveltejs/kit';
+import { can } from '$lib/permissions';
+import { DomainError } from '$lib/server/api';
+import { requirePermission, requireRole } from '$lib/server/guards';
+import * as projects from '$lib/server/projects';
+import * as review from '$lib/server/review';
+import * as people from '$lib/server/people';
+import { reviewSchema } from '$lib/schemas/projects';
+import { email } from '$lib/schemas/people';
+import { availableActions, isEditable } from '$lib/review-transitions';
+import type { RequestEvent } from '@sveltejs/kit';
+import type { Actions, PageServerLoad } from './$types';
+
+/** The ranking screen's query for this requirement (SI base units, °C). */
+function rankLink(r: projects.Project['requirement']): string {
+	const q = new URLSearchParams({ bias: String(r.biasV) });
+	if (r.temperatureRangeC) {
+		q.set('tlo', String(r.temperatureRangeC[0]));
+		q.set('thi', String(r.temperatureRangeC[1]));
+	} else if (r.temperatureC !== undefined) q.set('t', String(r.temperatureC));
+	if (r.clampCurrentA !== undefined) q.set('clamp', String(r.clampCurrentA));
+	if (r.maxForwardDropV !== undefined) q.set('maxDrop', String(r.maxForwardDropV));
+	return `/rank?${q}`;
+}
+
+async function projectOr404(id: number) {
+	try {
+		return await projects.find(id);
+	} catch (e) {
+		if (e instanceof DomainError && e.status === 404) error(404, { message: e.message, code: 'not_found' });
+		throw e;
+	}
+}
+
+export const load: PageServerLoad = async (event) => {
+	const user = requirePermission(event, 'project:read');
+	const project = await projectOr404(Number(event.params.id));
+	const [entries, members, events, activity] = await Promise.all([
+		projects.entries(project),
+		projects.members(project.id),
+		review.events(project.id),
+		projects.activity(project.id)
+	]);
+	const resource = review.resourceOf(project, events);
+	const decision = review.latestDecision(events);
+	const leadRef = project.leadId ? await people.findById(project.leadId) : null;
+	return {
+		project,
+		entries,
+		members,
+		lead: leadRef ? { name: leadRef.name, email: leadRef.email } : null,
+		events: events.map((e) => ({ id: e.id, action: e.action, toState: e.toState, comment: e.comment, at: e.at, by: e.actorName, version: e.projectVersion })),
+		decision: decision ? { action: decision.action, at: decision.at, by: decision.actorName, toState: decision.toState } : null,
+		changed: decision ? review.changedSince(decision.snapshot, entries) : [],
+		activity,
+		actions: availableActions(user, project.state, resource),
+		canEdit: can(user, 'shortlist:edit') && isEditable(project.state),
+		rankHref: rankLink(project.requirement)
+	};
+};
+
+function problem(e: unknown, form: string, values: Record<string, string>) {
+	if (e instanceof DomainError) {
+		return fail(e.status, { form, values, error: e.issues?.[0]?.message ?? e.message, message: e.message });
+	}
+	throw e;
+}
+
+const id = (event: RequestEvent) => Number(event.params.id);
+
+export const actions: Actions = {
+	add: async (event) => {
+		const user = requirePermission(event, 'shortlist:edit');
+		const fd = await event.request.formData();
+		const values = { partNumber: String(fd.get('partNumber') ?? '').trim(), note: String(fd.get('note') ?? '').trim() };
+		if (!values.partNumber) return fail(400, { form: 'add', values, error: 'Type a part number.', message: 'Type a part number.' });
+		if (values.note.length > 1000) return fail(400, { form: 'add', values, error: 'Keep the note under 1000 characters.', message: '' });
+		try {
+			const partId = await projects.partByNumber(values.partNumber);
+			await projects.addEntry(id(event), { junctionId: partId, note: values.note }, user.id);
+			return { form: 'add', done: `${values.partNumber} added.` };
+		} catch (e) {
+			return problem(e, 'add', values);
+		}
+	},
+	remove: async (event) => {
+		const user = requirePermission(event, 'shortlist:edit');
+		const partId = Number((await event.request.formData()).get('partId'));
+		if (!Number.isInteger(partId) || partId <= 0) return fail(400, { form: 'remove', values: {}, error: 'No part named.', message: '' });
+		try {
+			await projects.removeEntry(id(event), partId, user.id);
+			return { form: 'remove', done: 'Removed from the shortlist.' };
+		} catch (e) {
+			return problem(e, 'remove', {});
+		}
+	},
+	member: async (event) => {
+		const user = requirePermission(event, 'shortlist:edit');
+		const values = { email: String((await event.request.formData()).get('email') ?? '') };
+		const parsed = email.safeParse(values.email);
+		if (!parsed.success) return fail(400, { form: 'member', values, error: parsed.error.issues[0].message, message: '' });
+		try {
+			await projects.addMember(id(event), parsed.data, user.id);
+			return { form: 'member', done: `${parsed.data} is now a member.` };
+		} catch (e) {
+			return problem(e, 'member', values);
+		}
+	},
+	review: async (event) => {
+		requirePermission(event, 'project:read');
+		const user = requireRole(event, 'designer', 'lead');
+		const fd = await event.request.formData();
+		const values = { action: String(fd.get('action') ?? ''), comment: String(fd.get('comment') ?? '') };
+		const parsed = reviewSchema.safeParse({ ...values, expectedVersion: Number(fd.get('version')) || undefined });
+		if (!parsed.success) return fail(400, { form: 'review', values, error: parsed.error.issues[0].message, message: '' });
+		try {
+			await review.transition(id(event), parsed.data, user, process.env.ORIGIN ?? event.url.origin);
+			return { form: 'review', done: 'Recorded.' };
+		} catch (e) {
+			return problem(e, 'review', values);
+		}
+	}
+};

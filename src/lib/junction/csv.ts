@@ -198,13 +198,18 @@ export function parseSweepCsv(text: string, options: SweepOptions = {}): ParsedS
 	const cellUnits = new Map<Role, { unit: string; row: number }>();
 
 	const readCell = (cell: string | undefined, col: ColumnInfo, row: number): number => {
-		if (cell === undefined || cell.trim() === '') {
+		if (cell === undefined) {
 			issues.push({ row, column: col.name, message: 'missing value' });
 			return NaN;
 		}
+		// Fast path for plain numbers (most cells of large files); Number('') is 0, so 0 is re-checked.
 		let v = Number(cell);
-		if (cell.trim() !== '' && Number.isFinite(v) && !decimalComma) return v * col.scale;
-		if (Number.isFinite(v) && !cell.includes(',')) return v * col.scale;
+		if (v !== 0 && Number.isFinite(v)) return v * col.scale;
+		if (cell.trim() === '') {
+			issues.push({ row, column: col.name, message: 'missing value' });
+			return NaN;
+		}
+		if (v === 0) return 0;
 		let s = cell.trim().replace(/\u2212/g, '-');
 		if (decimalComma) s = s.replace(',', '.');
 		if (/^[+-]?(nan|inf(inity)?)$/i.test(s)) {
@@ -241,7 +246,8 @@ export function parseSweepCsv(text: string, options: SweepOptions = {}): ParsedS
 	for (let r = hasHeader ? first + 1 : first; r < n; r++) {
 		const cells = data[r];
 		if (cells.length === 1 && cells[0].trim() === '') continue;
-		if (cells.every((c) => c.trim() === '')) continue;
+		const vRaw = cells[vc.index];
+		if ((vRaw === undefined || vRaw.trim() === '') && cells.every((c) => c.trim() === '')) continue;
 		const row = r + 1;
 		const v = readCell(cells[vc.index], vc, row);
 		const i = readCell(cells[ic.index], ic, row);

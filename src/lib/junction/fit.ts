@@ -171,7 +171,8 @@ function runLM(pts: Pts, ev: Evaluator, start: number[], fitEG: boolean): number
 		initialValues: start,
 		jacobianFunction: ev.jac,
 		damping: 1e-3,
-		maxIterations: 60,
+		// The linear start is close, so Gauss–Newton-like steps settle well within 30 iterations.
+		maxIterations: 30,
 		errorTolerance: 0,
 		minValues: fitEG ? [-120, 0.3, 0, 0.05] : [-120, 0.3, 0],
 		maxValues: fitEG ? [10, 10, 1e6, 6] : [10, 10, 1e6]

@@ -55,11 +55,27 @@ export function isDatabaseDown(e: unknown): boolean {
 	return false;
 }
 
-/** Reads a JSON body and validates it; malformed JSON is a 400 with a plain message. */
+/** JSON request bodies are small; sweeps travel as files with their own, larger limit. */
+export const MAX_JSON_BYTES = 2 * 1024 * 1024;
+
+function tooLargeJson(size: number): never {
+	throw new DomainError(413, `The body is ${size} bytes; JSON requests up to ${MAX_JSON_BYTES} bytes are accepted.`);
+}
+
+/** Reads a JSON body and validates it; malformed JSON is a 400 and an oversized one a 413. */
 export async function readJson<T extends z.ZodType>(event: RequestEvent, schema: T): Promise<z.infer<T>> {
+	const declared = Number(event.request.headers.get('content-length') ?? NaN);
+	if (Number.isFinite(declared) && declared > MAX_JSON_BYTES) tooLargeJson(declared);
+	let text: string;
+	try {
+		text = await event.request.text();
+	} catch {
+		throw new DomainError(400, 'The request body could not be read.');
+	}
+	if (text.length > MAX_JSON_BYTES) tooLargeJson(text.length);
 	let body: unknown;
 	try {
-		body = await event.request.json();
+		body = JSON.parse(text);
 	} catch {
 		throw new DomainError(400, 'The body is not valid JSON.');
 	}

@@ -12,7 +12,8 @@ import { enqueueMail, type Mail } from './mail';
 import * as people from './people';
 import { escapeHtml } from './people';
 import * as projectsDomain from './projects';
-import type { ModelRecord } from './project-predictions';
+import { engineModel, type ModelRecord } from './project-predictions';
+import { emitModelCard } from '$lib/junction/spice-card';
 import type { Prediction, Verdict } from './projects';
 import { checkTransition, ACTION_DONE, STATE_LABEL, isReviewState, type ReviewAction, type ReviewState } from '$lib/review-transitions';
 import type { ReviewResource } from '$lib/permissions';
@@ -140,7 +141,7 @@ export async function transition(projectId: number, input: TransitionInput, acto
 	});
 }
 
-function describeRequirement(r: Requirement): string {
+export function describeRequirement(r: Requirement): string {
 	const t = r.temperatureRangeC ? `${formatTemperature(r.temperatureRangeC[0])} to ${formatTemperature(r.temperatureRangeC[1])}` : formatTemperature(r.temperatureC ?? 25);
 	const bits = [`bias ${formatSI(r.biasV, 'V')}`, t];
 	if (r.leakageTargetA !== undefined) bits.push(`leakage target ${formatSI(r.leakageTargetA, 'A')}`);
@@ -211,3 +212,66 @@ export function isDecided(state: string): boolean {
 	return isReviewState(state) && (state === 'approved' || state === 'declined');
 }
 
+
+/** The approval event of an approved project (exports are made from its snapshot). */
+export async function approval(projectId: number): Promise<{ project: projectsDomain.Project; event: ReviewEvent }> {
+	const project = await projectsDomain.find(projectId);
+	const evts = await events(projectId);
+	const event = project.state === 'approved' ? evts.find((e) => e.action === 'approve') : undefined;
+	if (!event) throw new DomainError(409, 'Only an approved shortlist can be exported; this one is not approved.');
+	return { project, event };
+}
+
+function spiceName(partNumber: string, taken: Set<string>): string {
+	let name = partNumber.replace(/[^\w.+-]/g, '_');
+	if (!/^[A-Za-z_]/.test(name)) name = `D${name}`;
+	let candidate = name;
+	for (let i = 2; taken.has(candidate.toLowerCase()); i++) candidate = `${name}_${i}`;
+	taken.add(candidate.toLowerCase());
+	return candidate;
+}
+
+/** One `.model` card per approved part, with the models as they stood at approval. */
+export function spiceLibrary(project: projectsDomain.Project, event: ReviewEvent): string {
+	const taken = new Set<string>();
+	const out = [
+		`* Junctionary model library: project "${project.name}" (#${project.id})`,
+		`* Approved by ${event.actorName} on ${event.at.toISOString()} (project version ${event.projectVersion})`,
+		`* Requirement: ${describeRequirement(event.snapshot.requirement)}`,
+		'* Predictions are model estimates from bench measurements of particular samples, not guarantees.',
+		'* Leakage varies by lot, humidity, contamination and board layout (guarding matters).',
+		''
+	];
+	for (const e of event.snapshot.entries) {
+		const model = engineModel(e.model);
+		out.push(`* ${e.partNumber} (${e.maker}, ${e.kind}), model version ${e.modelVersion}${e.note ? ` - ${e.note.replace(/\s+/g, ' ')}` : ''}`);
+		if (!model) {
+			out.push(`* (no usable model was on record for ${e.partNumber} at approval)`, '');
+			continue;
+		}
+		out.push(emitModelCard(spiceName(e.partNumber, taken), model, { forSimulator: true }), '');
+	}
+	return out.join('\n');
+}
+
+function csvCell(v: string | number | null | undefined): string {
+	if (v === null || v === undefined) return '';
+	const s = String(v);
+	return /[",\n\r]/.test(s) || /^[=+\-@]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+/** The approved shortlist as CSV, SI base units in the headers. */
+export function shortlistCsv(event: ReviewEvent): string {
+	const head = [
+		'part_number', 'maker', 'kind', 'note', 'added_by', 'model_version',
+		'leakage_typical_A', 'leakage_worst_A', 'leakage_target_A', 'leakage_verdict',
+		'drop_hot_V', 'drop_cold_V', 'drop_limit_V', 'drop_verdict', 'flags'
+	];
+	const rows = event.snapshot.entries.map((e) => [
+		e.partNumber, e.maker, e.kind, e.note, e.addedBy, e.modelVersion,
+		e.prediction?.leakageA.typical, e.prediction?.leakageA.worst, event.snapshot.requirement.leakageTargetA, e.verdict?.leakage.status,
+		e.prediction?.forwardDropV?.hot, e.prediction?.forwardDropV?.cold, event.snapshot.requirement.maxForwardDropV, e.verdict?.drop.status,
+		e.prediction?.flags.join(' ')
+	]);
+	return [head, ...rows].map((r) => r.map(csvCell).join(',')).join('\r\n') + '\r\n';
+}

@@ -1,0 +1,27 @@
+import { error } from '@sveltejs/kit';
+import { DomainError } from '$lib/server/api';
+import { requirePermission } from '$lib/server/guards';
+import * as projects from '$lib/server/projects';
+import * as review from '$lib/server/review';
+import * as people from '$lib/server/people';
+import type { PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async (event) => {
+	requirePermission(event, 'project:read');
+	let project: projects.Project;
+	try {
+		project = await projects.find(Number(event.params.id));
+	} catch (e) {
+		if (e instanceof DomainError) error(404, { message: e.message, code: 'not_found' });
+		throw e;
+	}
+	const events = await review.events(project.id);
+	const basis = review.latestDecision(events) ?? events[0] ?? null;
+	const lead = project.leadId ? await people.findById(project.leadId) : null;
+	return {
+		project: { id: project.id, name: project.name, description: project.description, state: project.state, requirement: project.requirement, version: project.version },
+		lead: lead?.name ?? null,
+		basis: basis ? { action: basis.action, at: basis.at, by: basis.actorName, version: basis.projectVersion, entries: basis.snapshot.entries, requirement: basis.snapshot.requirement } : null,
+		events: [...events].reverse().map((e) => ({ id: e.id, action: e.action, toState: e.toState, at: e.at, by: e.actorName, comment: e.comment }))
+	};
+};

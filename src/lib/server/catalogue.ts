@@ -176,7 +176,7 @@ export async function detail(id: number) {
 }
 
 /** The API's representation of a part (SI units, °C). */
-export function present(part: Part, model?: PartModelRow | null) {
+export function present(part: Part, model: PartModelRow | null) {
 	return {
 		id: part.id,
 		partNumber: part.partNumber,
@@ -195,10 +195,8 @@ export function present(part: Part, model?: PartModelRow | null) {
 		modelVersion: part.modelVersion,
 		createdAt: part.createdAt,
 		updatedAt: part.updatedAt,
-		...(model !== undefined
+		model: model
 			? {
-					model: model
-						? {
 								typical: model.typical,
 								worst: model.worst,
 								sampleModels: model.sampleModels,
@@ -206,20 +204,18 @@ export function present(part: Part, model?: PartModelRow | null) {
 								measured: model.measured,
 								sampleCount: model.sampleCount,
 								isMeasured: model.isMeasured,
-								version: model.version
-							}
-						: null,
-					flags: partFlags({
-						kind: part.kind,
-						material: part.material,
-						admitsLight: part.admitsLight,
-						isMeasured: model?.isMeasured ?? false,
-						hasModel: Boolean(model),
-						sampleCount: model?.sampleCount ?? 0,
-						reverseMeasured: model?.measured.reverseMeasured ?? false
-					})
-				}
-			: {})
+				version: model.version
+			}
+			: null,
+		flags: partFlags({
+			kind: part.kind,
+			material: part.material,
+			admitsLight: part.admitsLight,
+			isMeasured: model?.isMeasured ?? false,
+			hasModel: Boolean(model),
+			sampleCount: model?.sampleCount ?? 0,
+			reverseMeasured: model?.measured.reverseMeasured ?? false
+		})
 	};
 }
 

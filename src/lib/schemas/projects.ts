@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { parseCurrent, parseResistance, parseTemperature, parseVoltage } from '$lib/junction/units';
 import { REVIEW_ACTIONS } from '$lib/review-transitions';
 import { email } from './people';
+import { MAX_ID } from '../../params/id';
 
 const finite = (what: string) => z.number({ message: `${what} must be a number.` }).refine(Number.isFinite, `${what} must be finite.`);
 const celsius = (what: string) => finite(what).min(-273.15, `${what} is below absolute zero.`).max(500, `${what} is above 500 °C.`);
@@ -45,19 +46,19 @@ export type CreateProjectInput = z.infer<typeof createProjectSchema>;
 
 export const shortlistAddSchema = z
 	.object({
-		junctionId: z.number({ message: 'junctionId must be a part id (a number).' }).int().positive(),
+		junctionId: z.number({ message: 'junctionId must be a part id (a number).' }).int().positive().max(MAX_ID, 'No part has that id.'),
 		note: z.string().trim().max(1000, 'Keep the note under 1000 characters.').default('')
 	})
 	.strict();
 
-export const shortlistRemoveSchema = z.object({ junctionId: z.number().int().positive() }).strict();
+export const shortlistRemoveSchema = z.object({ junctionId: z.number().int().positive().max(MAX_ID, 'No part has that id.') }).strict();
 
 export const reviewSchema = z
 	.object({
 		action: z.enum(REVIEW_ACTIONS, { message: `action must be one of ${REVIEW_ACTIONS.join(', ')}.` }),
 		comment: z.string().trim().max(4000, 'Keep the comment under 4000 characters.').default(''),
 		/** The project version the person looked at; a decision on anything newer is refused. */
-		expectedVersion: z.number().int().positive().optional()
+		expectedVersion: z.number().int().positive().max(MAX_ID).optional()
 	})
 	.strict()
 	.superRefine((r, ctx) => {

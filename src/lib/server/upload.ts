@@ -11,10 +11,25 @@ function tooLarge(size: number | string): never {
 	throw new DomainError(413, `The upload is ${size} bytes; sweeps up to ${UPLOAD_LIMIT_BYTES} bytes are accepted. Nothing was stored.`);
 }
 
-/** Refuses an over-long body from its Content-Length before reading it. */
-export function checkLength(event: RequestEvent, limit = UPLOAD_LIMIT_BYTES + 64 * 1024) {
+/**
+ * Refuses an over-long body from its Content-Length without keeping it. The body is read
+ * and thrown away (up to 64 MB) so the client sees the 413 rather than a reset connection.
+ */
+export async function checkLength(event: RequestEvent, limit = UPLOAD_LIMIT_BYTES + 64 * 1024) {
 	const len = Number(event.request.headers.get('content-length') ?? NaN);
-	if (Number.isFinite(len) && len > limit) tooLarge(len);
+	if (Number.isFinite(len) && len > limit) {
+		if (len <= 64 * 1024 * 1024 && event.request.body) {
+			const reader = event.request.body.getReader();
+			try {
+				while (!(await reader.read()).done) {
+					/* discard */
+				}
+			} catch {
+				/* the client gave up: nothing to answer */
+			}
+		}
+		tooLarge(len);
+	}
 }
 
 async function bodyBytes(event: RequestEvent): Promise<Uint8Array> {
@@ -56,7 +71,7 @@ function sampleFrom(raw: unknown): string {
 
 /** multipart (file, sample, temperatureC), JSON ({ sample, temperatureC, points }) or text/csv (query params). */
 export async function readUpload(event: RequestEvent): Promise<UploadRequest> {
-	checkLength(event);
+	await checkLength(event);
 	const type = (event.request.headers.get('content-type') ?? '').toLowerCase();
 	const q = event.url.searchParams;
 	if (type.startsWith('multipart/form-data')) {

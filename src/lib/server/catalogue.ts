@@ -23,8 +23,12 @@ function checkModel(model: StoredModel, material: Material, path = 'model'): voi
 	}
 }
 
-function uniqueViolation(e: unknown): boolean {
-	return (e as { code?: string })?.code === '23505';
+/** PostgreSQL's unique_violation, whether thrown directly or wrapped by Drizzle (as `cause`). */
+export function uniqueViolation(e: unknown, constraint?: string): boolean {
+	for (let x = e as { code?: string; constraint_name?: string; cause?: unknown } | undefined; x; x = x.cause as typeof x) {
+		if (x.code === '23505') return constraint ? String(x.constraint_name ?? '').includes(constraint) : true;
+	}
+	return false;
 }
 
 function duplicatePart(maker: string, partNumber: string) {

@@ -21,6 +21,7 @@ import { db } from './db';
 import { fits, parts, runs, samples, type FitInterval, type FitRange, type StoredModel, type SweepDirection } from './db/schema';
 import type { Issue } from './http-error';
 import { rebuildPartModel } from './part-models';
+import { uniqueViolation } from './catalogue';
 
 /** Largest sweep upload accepted [bytes]: bench files are a few kilobytes to a few hundred. */
 export const UPLOAD_LIMIT_BYTES = 2 * 1024 * 1024;
@@ -306,7 +307,7 @@ export async function ingest(actor: { id: string } | null, input: IngestInput): 
 		});
 	} catch (e) {
 		// Two uploads of one file at once: the unique index decides, the loser is told plainly.
-		if ((e as { code?: string }).code === '23505' && String((e as { constraint_name?: string }).constraint_name ?? '').includes('sha256')) {
+		if (uniqueViolation(e, 'sha256')) {
 			const again = await duplicateOf(prepared.sha256);
 			if (again) throw duplicateError(again);
 		}

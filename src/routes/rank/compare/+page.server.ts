@@ -1,0 +1,31 @@
+import { requirePermission } from '$lib/server/guards';
+import { can } from '$lib/permissions';
+import { fail } from '$lib/server/http-error';
+import { predictParts, type Prediction } from '$lib/server/ranking';
+import { modelCache } from '$lib/server/model-cache';
+import { fieldsFromQuery, parseFields } from '$lib/rank/operating-point-url';
+import { COMPARE_MAX } from '../limits';
+import type { PageServerLoad } from './$types';
+
+// 2–4 parts side by side at the operating point in the query (?ids=3,8,21&v=…).
+export const load: PageServerLoad = async (event) => {
+	const user = requirePermission(event, 'rank:use');
+	const raw = event.url.searchParams.get('ids') ?? '';
+	const ids = [...new Set(raw.split(',').map((s) => Number(s.trim())).filter((n) => Number.isInteger(n) && n > 0 && n < 2 ** 31))];
+	if (ids.length > COMPARE_MAX) fail(400, `Compare at most ${COMPARE_MAX} parts at once.`);
+	const fields = fieldsFromQuery(event.url.searchParams);
+	const { op, errors } = parseFields(fields);
+	const predictions = op ? await predictParts(ids, op) : new Map<number, Prediction>();
+	const snap = (await modelCache()).snapshot;
+	const parts = ids.flatMap((id) => {
+		const p = predictions.get(id);
+		const k = snap.indexOf.get(id);
+		if (!p || k === undefined) return [];
+		const cached = snap.parts[k];
+		return [{ ...p, model: { ...cached.typical, material: cached.material } }];
+	});
+	const missing = ids.filter((id) => !predictions.has(id));
+	const query = new URLSearchParams(event.url.searchParams);
+	query.delete('ids');
+	return { parts, missing, op, errors, query: query.toString(), canShortlist: can(user, 'shortlist:edit') };
+};

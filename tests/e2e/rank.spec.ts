@@ -129,8 +129,17 @@ test('screenshots at 1280 px and at 200 % zoom, keyboard reachable', async ({ br
 	const zpage = await signedInPage(browser, { viewport: { width: 640, height: 900 }, deviceScaleFactor: 2 });
 	await openRank(zpage, 'v=-5&tlo=25&thi=85&ic=1m&vf=0.7&rs=10G&verr=1m');
 	await expect(zpage.locator('tbody tr').first()).toBeVisible();
-	const overflow = await zpage.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
-	expect(overflow, 'the page itself must not scroll sideways at 200 %').toBeLessThanOrEqual(1);
 	await zpage.waitForTimeout(300);
 	await screenshot(zpage, 'rank-200pct');
+	const [overflow, offenders] = await zpage.evaluate(() => {
+		const width = document.documentElement.clientWidth;
+		const wide = [...document.querySelectorAll('body *')]
+			.filter((el) => el.getBoundingClientRect().right > width + 1 && !el.closest('.overflow-x-auto'))
+			.map((el) => `${el.tagName.toLowerCase()}.${String(el.className).slice(0, 50)}`);
+		const w = document.querySelector('.overflow-x-auto') as HTMLElement | null;
+		const info = w ? ` wrapper ${w.clientWidth}/${w.scrollWidth} ${getComputedStyle(w).overflowX} right ${w.getBoundingClientRect().right}` : '';
+		const far = [...document.querySelectorAll('body *')].sort((a, b) => b.getBoundingClientRect().right - a.getBoundingClientRect().right)[0];
+		return [document.documentElement.scrollWidth - width, wide.slice(0, 5).join(' | ') + info + ` farthest ${far?.tagName}.${String(far?.className).slice(0, 80)} ${far?.getBoundingClientRect().right}`] as const;
+	});
+	expect(overflow, `the page itself must not scroll sideways at 200 %: ${offenders}`).toBeLessThanOrEqual(1);
 });

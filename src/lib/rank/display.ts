@@ -1,6 +1,6 @@
 /** How the sentence shows each value once typed (SI prefixes, Unicode minus). */
 import { formatBias, formatSI, formatTemperature } from '$lib/junction';
-import type { FieldName } from './operating-point-url';
+import { parseFields, type FieldName, type OpFields } from './operating-point-url';
 
 /** Display text for a parsed field value, or null to leave the typed text alone. */
 export function displayValue(field: FieldName, value: number): string | null {
@@ -29,11 +29,41 @@ export function displayValue(field: FieldName, value: number): string | null {
 
 /** A current with its prefix, or a dash. */
 export function amps(a: number | null | undefined): string {
-	return a === null || a === undefined || !Number.isFinite(a) ? '—' : formatSI(a, 'A');
+	if (a === null || a === undefined || !Number.isFinite(a)) return '—';
+	// Below an attoamp the figure is a model floor, not a current anyone can measure.
+	if (a !== 0 && Math.abs(a) < 1e-18) return '< 1 aA';
+	return formatSI(a, 'A');
+}
+
+/** The fields as the sentence shows them: each valid value in the app's own notation. */
+export function tidyFields(f: OpFields): OpFields {
+	const { op } = parseFields(f);
+	if (!op) return f;
+	const out = { ...f, kinds: [...f.kinds], lifecycles: [...f.lifecycles] };
+	const show = (field: FieldName, v: number | undefined) => {
+		if (v === undefined) return;
+		const text = displayValue(field, v);
+		if (text) (out as Record<string, unknown>)[field] = text;
+	};
+	show('bias', op.biasV);
+	if (op.temperatureRangeC) {
+		show('tLo', op.temperatureRangeC[0]);
+		show('tHi', op.temperatureRangeC[1]);
+	} else show('tHi', op.temperatureC);
+	show('clamp', op.clampCurrentA);
+	show('maxDrop', op.maxForwardDropV);
+	show('margin', op.reverseMarginV);
+	show('source', op.sourceResistanceOhm);
+	show('allowedError', op.allowedErrorV);
+	show('leakage', op.leakageTargetA);
+	show('maxCap', op.maxCapacitanceF);
+	return out;
 }
 
 export function volts(v: number | null | undefined, digits = 3): string {
-	return v === null || v === undefined || !Number.isFinite(v) ? '—' : formatSI(v, 'V', { digits });
+	if (v === null || v === undefined || !Number.isFinite(v)) return '—';
+	if (v !== 0 && Math.abs(v) < 1e-18) return '< 1 aV';
+	return formatSI(v, 'V', { digits });
 }
 
 export function farads(f: number | null | undefined): string {

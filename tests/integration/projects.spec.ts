@@ -149,6 +149,8 @@ describe('shortlist and review', () => {
 		expect(approved.body.state).toBe('approved');
 		expect((await review(id, 'lead', { action: 'reject', comment: 'changed my mind' })).status).toBe(409);
 		expect((await review(id, 'designer', { action: 'submit', comment: '' })).status).toBe(409);
+		const listed = (await api('GET', '/api/v1/projects?state=approved', { as: 'librarian' })).body.items.find((p: { id: number }) => p.id === id);
+		expect(listed).toMatchObject({ state: 'approved', entryCount: 1 });
 
 		// Each step left one event (with a snapshot) and one audit row, versions strictly rising.
 		const evts = await db.select().from(reviewEvents).where(eq(reviewEvents.projectId, id)).orderBy(asc(reviewEvents.id));

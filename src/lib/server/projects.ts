@@ -112,14 +112,18 @@ export type ProjectSummary = Project & { lead: PersonRef | null; entryCount: num
 
 export async function list(filter: { state?: string } = {}): Promise<ProjectSummary[]> {
 	const where = filter.state && isReviewState(filter.state) ? eq(projects.state, filter.state) : undefined;
-	const rows = await db
-		.select({ project: projects, entryCount: sql<number>`(select count(*)::int from ${shortlistEntries} where ${shortlistEntries.projectId} = ${projects.id})` })
-		.from(projects)
-		.where(where)
-		.orderBy(desc(projects.updatedAt), desc(projects.id))
-		.limit(500);
-	const refs = await personRefs(rows.map((r) => r.project.leadId));
-	return rows.map((r) => ({ ...r.project, lead: r.project.leadId ? (refs.get(r.project.leadId) ?? null) : null, entryCount: r.entryCount }));
+	const rows = await db.select().from(projects).where(where).orderBy(desc(projects.updatedAt), desc(projects.id)).limit(500);
+	const ids = rows.map((r) => r.id);
+	const counts = ids.length
+		? await db
+				.select({ projectId: shortlistEntries.projectId, n: sql<number>`count(*)::int` })
+				.from(shortlistEntries)
+				.where(inArray(shortlistEntries.projectId, ids))
+				.groupBy(shortlistEntries.projectId)
+		: [];
+	const countOf = new Map(counts.map((c) => [c.projectId, c.n]));
+	const refs = await personRefs(rows.map((r) => r.leadId));
+	return rows.map((p) => ({ ...p, lead: p.leadId ? (refs.get(p.leadId) ?? null) : null, entryCount: countOf.get(p.id) ?? 0 }));
 }
 
 export async function find(id: number, tx: DbOrTx = db): Promise<Project> {

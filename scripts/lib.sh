@@ -110,7 +110,7 @@ start_mail_catcher() {
 		CATCHER_PID=
 		return
 	fi
-	(cd "$ROOT" && MAIL_SMTP_PORT=$smtp MAIL_HTTP_PORT=$http exec npx tsx scripts/mail-catcher.ts) \
+	(cd "$ROOT" && MAIL_SMTP_PORT=$smtp MAIL_HTTP_PORT=$http exec node --import tsx scripts/mail-catcher.ts) \
 		>"$DATA/mail-catcher-$smtp.log" 2>&1 &
 	CATCHER_PID=$!
 	local i
@@ -119,6 +119,16 @@ start_mail_catcher() {
 		sleep 0.1
 	done
 	log "mail catcher on SMTP 127.0.0.1:$smtp (messages at http://127.0.0.1:$http)"
+}
+
+# stop_process PID: TERM the process and its children, KILL what is left after 10 s.
+stop_process() {
+	local pid=$1 i
+	[ -n "$pid" ] || return 0
+	pkill -TERM -P "$pid" 2>/dev/null; kill -TERM "$pid" 2>/dev/null || return 0
+	for i in $(seq 1 100); do kill -0 "$pid" 2>/dev/null || return 0; sleep 0.1; done
+	pkill -KILL -P "$pid" 2>/dev/null; kill -KILL "$pid" 2>/dev/null
+	return 0
 }
 
 # wait_for_http URL: until the server answers (60 s at most).
@@ -130,4 +140,43 @@ wait_for_http() {
 	done
 	echo "gave up waiting for $1" >&2
 	return 1
+}
+
+# start_stack CLUSTER PGPORT DB PORT SMTP_PORT HTTP_PORT: a fresh database on a project
+# cluster, migrated and seeded, the mail catcher, and the environment the app reads.
+# Used by npm test and the benchmarks (npm start keeps its database between runs).
+start_stack() {
+	local cluster=$1 pgport=$2 db=$3 port=$4 smtp=$5 http=$6
+	ensure_node_modules
+	ensure_secret
+	start_postgres "$cluster" "$pgport"
+	ensure_database "$pgport" "$db" fresh
+	export PG_CLUSTER=$cluster PGPORT=$pgport
+	export DATABASE_URL="postgres://junctionary@127.0.0.1:$pgport/$db"
+	export SMTP_URL="smtp://127.0.0.1:$smtp"
+	export MAIL_CATCHER_URL="http://127.0.0.1:$http"
+	export DEV_MAILBOX=1
+	export BODY_SIZE_LIMIT=${BODY_SIZE_LIMIT:-16M}
+	export HOST=127.0.0.1 PORT=$port ORIGIN="http://127.0.0.1:$port" APP_URL="http://127.0.0.1:$port"
+	export NODE_ENV=production
+	migrate
+	(cd "$ROOT" && npx tsx seed/index.ts)
+	start_mail_catcher "$smtp" "$http"
+}
+
+# start_app LOGFILE: build and serve the app in the background (SERVER_PID), wait for it.
+start_app() {
+	(cd "$ROOT" && npx vite build --logLevel warn) || return 1
+	(cd "$ROOT" && exec node build) >"$1" 2>&1 &
+	SERVER_PID=$!
+	wait_for_http "$APP_URL/api/v1/health" || { tail -30 "$1"; return 1; }
+}
+
+# stop_stack: what start_stack and start_app started (called from a trap).
+stop_stack() {
+	trap - INT TERM EXIT
+	stop_process "${SERVER_PID:-}"
+	stop_process "${CATCHER_PID:-}"
+	[ "${PG_STARTED_HERE:-0}" = 1 ] && stop_postgres "$PGDATA_DIR"
+	return 0
 }

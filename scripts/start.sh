@@ -20,10 +20,7 @@ export DEV_MAILBOX=${DEV_MAILBOX:-1}
 export HOST=127.0.0.1 PORT ORIGIN="http://127.0.0.1:$PORT" BODY_SIZE_LIMIT=${BODY_SIZE_LIMIT:-16M}
 
 cleanup() {
-	trap - INT TERM EXIT
-	[ -n "${SERVER_PID:-}" ] && kill "$SERVER_PID" 2>/dev/null && wait "$SERVER_PID" 2>/dev/null
-	[ -n "${CATCHER_PID:-}" ] && kill "$CATCHER_PID" 2>/dev/null
-	[ "${PG_STARTED_HERE:-0}" = 1 ] && stop_postgres "$PGDATA_DIR"
+	stop_stack
 	exit 0
 }
 trap cleanup INT TERM EXIT

@@ -18,6 +18,8 @@ declare global {
 			user: User | null;
 			/** How the person was identified: browser session or API token. */
 			via: 'session' | 'token' | null;
+			/** Set when a load failed because PostgreSQL was unreachable (answered as 503). */
+			databaseDown?: boolean;
 		}
 		// interface PageData {}
 		// interface PageState {}

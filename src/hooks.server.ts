@@ -74,6 +74,8 @@ const gate: Handle = async ({ event, resolve }) => {
 
 const securityHeaders: Handle = async ({ event, resolve }) => {
 	let response = await resolve(event);
+	// A page whose load lost the database mid-way is an outage, not a bug: say so with 503.
+	if (response.status === 500 && event.locals.databaseDown) response = unavailable(event.url.pathname);
 	// Redirects made with Response.redirect (Auth.js) have immutable headers: copy them.
 	try {
 		response.headers.set('x-content-type-options', 'nosniff');
@@ -90,7 +92,10 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 export const handle = sequence(securityHeaders, authHandle, identify, gate);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
-	if (isDatabaseDown(error)) return { message: UNAVAILABLE, code: 'unavailable' };
+	if (isDatabaseDown(error)) {
+		event.locals.databaseDown = true;
+		return { message: UNAVAILABLE, code: 'unavailable' };
+	}
 	if (status >= 500) console.error(event.url.pathname, error);
 	return { message, code: status === 404 ? 'not_found' : 'internal' };
 };

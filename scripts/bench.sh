@@ -1,0 +1,20 @@
+#!/usr/bin/env bash
+# npm run bench / npm run bench:load: a benchmark stack (its own cluster, a fresh database
+# seeded with the demo and scaled to BENCH_PARTS parts, the built server), then the
+# benchmarks. Ratios go to tests/bench/results.json and tests/bench/REPORT.md.
+source "$(dirname "$0")/lib.sh"
+
+what=${1:-all}
+ensure_debian_packages postgresql curl chromium
+trap stop_stack INT TERM EXIT
+start_stack pg-bench "${BENCH_PGPORT:-54349}" junctionary_bench "${BENCH_PORT:-3200}" \
+	"${BENCH_MAIL_SMTP_PORT:-2545}" "${BENCH_MAIL_HTTP_PORT:-2546}"
+(cd "$ROOT" && npx tsx seed/scale.ts "${BENCH_PARTS:-10000}")
+# The load test makes hundreds of connections' worth of requests: give the pool room.
+export DB_POOL_MAX=${DB_POOL_MAX:-20} OUTBOX_WORKER=0
+start_app "$DATA/bench-server.log"
+cd "$ROOT"
+case "$what" in
+	load) npx tsx tests/bench/load.ts ;;
+	*) npx tsx tests/bench/run.ts ;;
+esac

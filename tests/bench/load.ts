@@ -1,0 +1,103 @@
+/**
+ * Load and fault benchmark against the built server and the real PostgreSQL (loopback):
+ *  1. 200 connections for LOAD_SECONDS (60) across ranking, catalogue search and part pages;
+ *  2. PostgreSQL stopped and restarted during a lighter run while a writer creates projects:
+ *     the app must answer 503 while it is down, recover by itself, and keep every write it
+ *     acknowledged.
+ * Run through `npm run bench:load` (or `npm run bench`), which set up the stack first.
+ */
+import { execFileSync } from 'node:child_process';
+import { designerMix, runLoad, type LoadSummary } from './http-load';
+import { record } from './results';
+
+const APP_URL = process.env.APP_URL ?? 'http://127.0.0.1:3200';
+const SECONDS = Number(process.env.LOAD_SECONDS ?? 60);
+const CONNECTIONS = Number(process.env.LOAD_CONNECTIONS ?? 200);
+
+function describe(s: LoadSummary): string {
+	return `${s.requests} requests, ${s.rps.toFixed(0)}/s, p50 ${s.p50Ms} ms, p99 ${s.p99Ms} ms, errors ${s.errors}, timeouts ${s.timeouts}, non-2xx ${s.non2xx} (${JSON.stringify(s.statusCodes)})`;
+}
+
+export async function runLoadBenchmarks() {
+	const tokens = await import('../../src/lib/server/tokens');
+	const people = await import('../../src/lib/server/people');
+	const { db } = await import('../../src/lib/server/db');
+	const { parts, projects } = await import('../../src/lib/server/db/schema');
+	const { inArray } = await import('drizzle-orm');
+
+	const designer = await people.findByEmail('designer@demo.test');
+	if (!designer) throw new Error('demo designer missing: run the seed first');
+	const { token } = await tokens.create(designer.id, 'load benchmark', null);
+	const ids = (await db.select({ id: parts.id }).from(parts).limit(2000)).map((r) => r.id);
+
+	// 1. Sustained load.
+	console.log(`load: ${CONNECTIONS} connections for ${SECONDS} s over ${ids.length}+ parts…`);
+	const load = await runLoad({ url: APP_URL, token, mix: designerMix(ids), connections: CONNECTIONS, seconds: SECONDS });
+	console.log('load:', describe(load));
+	const failed = load.errors + load.timeouts + load.non2xx;
+	record('load-error-rate', failed / Math.max(1, load.requests), 0, `${CONNECTIONS} connections × ${SECONDS} s: ${describe(load)}`);
+
+	// 2. Database outage under load, with a writer.
+	const cluster = process.env.PG_CLUSTER;
+	const port = process.env.PGPORT;
+	if (!cluster || !port) {
+		console.log('faults: skipped (PG_CLUSTER and PGPORT not set)');
+		return;
+	}
+	const acknowledged: number[] = [];
+	const statuses: Record<number, number> = {};
+	let writing = true;
+	const writer = (async () => {
+		for (let i = 0; writing; i++) {
+			try {
+				const res = await fetch(`${APP_URL}/api/v1/projects`, {
+					method: 'POST',
+					headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
+					body: JSON.stringify({ name: `outage writer ${Date.now()}-${i}`, requirement: { biasV: -1, temperatureC: 25 } })
+				});
+				statuses[res.status] = (statuses[res.status] ?? 0) + 1;
+				if (res.status === 201) acknowledged.push((await res.json()).id);
+				else await res.arrayBuffer();
+			} catch {
+				statuses[0] = (statuses[0] ?? 0) + 1;
+			}
+			await new Promise((r) => setTimeout(r, 20));
+		}
+	})();
+	const background = runLoad({ url: APP_URL, token, mix: designerMix(ids), connections: 20, seconds: 20 });
+	await new Promise((r) => setTimeout(r, 5000));
+	const pg = (a: string) => execFileSync('bash', ['scripts/pg.sh', a, cluster, port], { stdio: 'pipe' });
+	pg('stop');
+	const downAt = Date.now();
+	await new Promise((r) => setTimeout(r, 5000));
+	const duringOutage = await fetch(`${APP_URL}/api/v1/junctions`, { headers: { authorization: `Bearer ${token}` } });
+	pg('start');
+	let recoveredMs = -1;
+	for (let i = 0; i < 200; i++) {
+		const r = await fetch(`${APP_URL}/api/v1/junctions?limit=1`, { headers: { authorization: `Bearer ${token}` } });
+		await r.arrayBuffer();
+		if (r.status === 200) {
+			recoveredMs = Date.now() - downAt;
+			break;
+		}
+		await new Promise((r) => setTimeout(r, 100));
+	}
+	const outage = await background;
+	writing = false;
+	await writer;
+	const stored = acknowledged.length
+		? (await db.select({ id: projects.id }).from(projects).where(inArray(projects.id, acknowledged))).length
+		: 0;
+	const lost = acknowledged.length - stored;
+	const detail = `PostgreSQL down ~5 s under 20 connections: during the outage the API answered ${duringOutage.status}; recovered ${recoveredMs} ms after the stop without a restart; writer statuses ${JSON.stringify(statuses)}; ${acknowledged.length} acknowledged writes, ${stored} found afterwards; load ${describe(outage)}`;
+	console.log('faults:', detail);
+	record('fault-acknowledged-writes-lost', lost / Math.max(1, acknowledged.length), 0, detail);
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) {
+	await runLoadBenchmarks();
+	const { writeReport } = await import('./results');
+	const { client } = await import('../../src/lib/server/db');
+	await client.end();
+	console.log('\n' + writeReport());
+}

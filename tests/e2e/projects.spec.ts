@@ -74,8 +74,14 @@ test('a shortlist goes from designer to lead, is sent back, resubmitted and appr
 	await waitForVerdicts(page, 2);
 	await expect(page.getByTestId('entry').filter({ hasText: quiet })).toHaveAttribute('data-verdict', 'pass');
 	await expect(page.getByTestId('entry').filter({ hasText: leaky })).toHaveAttribute('data-verdict', 'fail');
-	await expect(page.getByRole('link', { name: "Open this project's ranking →" })).toHaveAttribute('href', /\/rank\?bias=-5&tlo=0&thi=85&clamp=0\.001&maxDrop=0\.8/);
+	await expect(page.getByRole('link', { name: "Open this project's ranking →" })).toHaveAttribute('href', '/rank?v=-5&tlo=0&thi=85&ic=0.001&vf=0.8&ileak=1e-9');
 	await screenshot(page, 'project-draft');
+	// The ranking screen opens on this requirement.
+	await page.getByRole('link', { name: "Open this project's ranking →" }).click();
+	await expect(page.locator('#op-bias')).toHaveValue(/5/);
+	await expect(page.locator('#op-tlo')).toHaveValue(/0/);
+	await page.goBack();
+	await expect(page.getByRole('heading', { level: 1, name })).toBeVisible();
 
 	await page.getByLabel(/^Comment/).fill('Two candidates; the second only if cost forces it.');
 	await page.getByRole('button', { name: 'Send to the lead' }).click();

@@ -8,19 +8,23 @@ import * as people from '$lib/server/people';
 import { reviewSchema } from '$lib/schemas/projects';
 import { email } from '$lib/schemas/people';
 import { availableActions, isEditable } from '$lib/review-transitions';
+import { emptyFields, queryFromFields } from '$lib/rank/operating-point-url';
 import type { RequestEvent } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
 
-/** The ranking screen's query for this requirement (SI base units, °C). */
+/** The ranking screen's query for this requirement, written by the ranking's own URL module. */
 function rankLink(r: projects.Project['requirement']): string {
-	const q = new URLSearchParams({ bias: String(r.biasV) });
+	const f = emptyFields();
+	f.bias = String(r.biasV);
 	if (r.temperatureRangeC) {
-		q.set('tlo', String(r.temperatureRangeC[0]));
-		q.set('thi', String(r.temperatureRangeC[1]));
-	} else if (r.temperatureC !== undefined) q.set('t', String(r.temperatureC));
-	if (r.clampCurrentA !== undefined) q.set('clamp', String(r.clampCurrentA));
-	if (r.maxForwardDropV !== undefined) q.set('maxDrop', String(r.maxForwardDropV));
-	return `/rank?${q}`;
+		f.tLo = String(r.temperatureRangeC[0]);
+		f.tHi = String(r.temperatureRangeC[1]);
+	} else if (r.temperatureC !== undefined) f.tHi = String(r.temperatureC);
+	if (r.clampCurrentA !== undefined) f.clamp = String(r.clampCurrentA);
+	if (r.maxForwardDropV !== undefined) f.maxDrop = String(r.maxForwardDropV);
+	if (r.leakageTargetA !== undefined) f.leakage = String(r.leakageTargetA);
+	if (r.sourceResistanceOhm) f.source = String(r.sourceResistanceOhm);
+	return `/rank?${queryFromFields(f)}`;
 }
 
 async function projectOr404(id: number) {

@@ -1,13 +1,18 @@
 /**
- * Benchmark entry point (`npm run bench`, through scripts/bench.sh, which sets up the stack).
- * Each area adds its own call here; the report is written from every recorded result.
+ * Benchmark entry point (`npm run bench`, through scripts/bench.sh, which sets up the stack:
+ * its own PostgreSQL, the demo scaled to 10k parts, the built server). Each area adds its
+ * own call here; the report is written from every recorded result at the end.
  */
+import { runBrowserBenchmarks } from './browser.bench';
 import { runJunctionBenchmarks } from './junction.bench';
 import { runLoadBenchmarks } from './load';
+import { runRankingBenchmarks } from './ranking.bench';
 import { writeReport } from './results';
 
 await runJunctionBenchmarks();
-if (process.env.APP_URL) {
+if (process.env.DATABASE_URL) {
+	await runRankingBenchmarks();
+	await runBrowserBenchmarks();
 	await runLoadBenchmarks();
 	const { client } = await import('../../src/lib/server/db');
 	await client.end();

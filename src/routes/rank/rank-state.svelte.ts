@@ -54,6 +54,9 @@ export class RankState {
 
 	/** Re-ranks now (aborting an earlier request), and mirrors the fields into the URL. */
 	async refresh(): Promise<void> {
+		// An explicit refresh (Enter) makes a pending debounced one redundant.
+		if (this.timer) clearTimeout(this.timer);
+		this.timer = null;
 		try {
 			replaceState(`?${this.query}`, {});
 		} catch {

@@ -1,25 +1,4 @@
-import type { Page } from '@playwright/test';
-import { CATCHER_URL, expect, screenshot, test } from './fixtures';
-
-/**
- * Signs in through the mailbox like the shared fixture, but waits for the sign-in form to be
- * hydrated first: under `vite dev` a fill can land before the scripts and be lost.
- */
-async function signInAs(page: Page, email: string, next: string) {
-	const list = async () => (await (await fetch(`${CATCHER_URL}/messages?to=${encodeURIComponent(email)}`)).json()) as { id: number; subject: string; links: string[] }[];
-	const before = (await list())[0]?.id ?? 0;
-	await page.goto(`/signin?next=${encodeURIComponent(next)}`);
-	await page.waitForLoadState('networkidle');
-	await page.getByLabel('Work e-mail').fill(email);
-	await page.getByRole('button', { name: /sign-in link/i }).click();
-	await expect(page.getByRole('heading', { name: 'Check your mail' })).toBeVisible();
-	await expect.poll(async () => (await list()).find((m) => m.id > before && /sign-in link/i.test(m.subject))?.id ?? 0, { timeout: 15_000 }).toBeGreaterThan(before);
-	const mail = (await list()).find((m) => m.id > before && /sign-in link/i.test(m.subject))!;
-	await page.goto(`/dev/mailbox?to=${encodeURIComponent(email)}`);
-	await page.locator(`a[href="${mail.links[0]}"]`).first().click();
-	await page.waitForURL((u) => !u.pathname.startsWith('/auth') && !u.pathname.startsWith('/dev'));
-	await page.waitForLoadState('networkidle');
-}
+import { expect, screenshot, signInAs, test } from './fixtures';
 
 const VT25 = 0.025693;
 /** A forward sweep with a little noise; the salt makes each run's file new to the catalogue. */

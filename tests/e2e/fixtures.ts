@@ -25,18 +25,24 @@ async function lastMailId(): Promise<number> {
 
 /**
  * Signs in the way a person does: asks for a link on the sign-in page, opens the local
- * mailbox page, and follows the link in the newest message.
+ * mailbox page, and follows the link in the newest message. It waits for the page's scripts
+ * before typing (a development server may still be hydrating) and tries once more if the
+ * request was lost to a reload.
  */
 export async function signInAs(page: Page, email: string, next = '/') {
-	const before = await lastMailId();
-	await page.goto(`/signin?next=${encodeURIComponent(next)}`);
-	await page.getByLabel('Work e-mail').fill(email);
-	await page.getByRole('button', { name: /sign-in link/i }).click();
-	await expect(page.getByRole('heading', { name: 'Check your mail' })).toBeVisible();
-	const mail = await newestMail(email, /sign-in link/i, before);
-	await page.goto(`/dev/mailbox?to=${encodeURIComponent(email)}`);
-	await page.locator(`a[href="${mail.links[0]}"]`).first().click();
-	await page.waitForURL((u) => !u.pathname.startsWith('/auth') && !u.pathname.startsWith('/dev'));
+	await expect(async () => {
+		const before = await lastMailId();
+		await page.goto(`/signin?next=${encodeURIComponent(next)}`);
+		await page.waitForLoadState('networkidle');
+		await page.getByLabel('Work e-mail').fill(email);
+		await page.getByRole('button', { name: /sign-in link/i }).click();
+		await expect(page.getByRole('heading', { name: 'Check your mail' })).toBeVisible();
+		const mail = await newestMail(email, /sign-in link/i, before);
+		await page.goto(`/dev/mailbox?to=${encodeURIComponent(email)}`);
+		await page.locator(`a[href="${mail.links[0]}"]`).first().click();
+		await page.waitForURL((u) => !u.pathname.startsWith('/auth') && !u.pathname.startsWith('/dev'));
+	}).toPass({ timeout: 45_000 });
+	await page.waitForLoadState('networkidle');
 }
 
 export async function screenshot(page: Page, name: string) {

@@ -1,17 +1,6 @@
 import type { Page } from '@playwright/test';
 import { CATCHER_URL, expect, screenshot, signInAs, test } from './fixtures';
 
-/**
- * Signs in through the mailbox; tries again when the address typed was lost to a page that
- * finished hydrating just after it (a development server can be that slow).
- */
-async function signIn(page: Page, email: string, next: string) {
-	await expect(async () => {
-		await signInAs(page, email, next);
-	}).toPass({ timeout: 45_000 });
-	await page.waitForLoadState('networkidle');
-}
-
 async function signOut(page: Page) {
 	await page.getByRole('button', { name: 'Sign out' }).click();
 	await expect(page.getByText('You are signed out.')).toBeVisible();
@@ -33,7 +22,7 @@ test('a shortlist goes from designer to lead, is sent back, resubmitted and appr
 	const name = `Electrometer guard ${tag}`;
 
 	// Two parts with given models, entered by a librarian.
-	await signIn(page, 'librarian@demo.test', '/');
+	await signInAs(page, 'librarian@demo.test', '/');
 	for (const [partNumber, model] of [
 		[quiet, { IS: 2e-15, N: 1.02, RS: 0.8 }],
 		[leaky, { IS: 5e-9, N: 1.9, RS: 0.3 }]
@@ -44,7 +33,7 @@ test('a shortlist goes from designer to lead, is sent back, resubmitted and appr
 	await signOut(page);
 
 	// The designer writes the requirement with SI prefixes and builds the shortlist.
-	await signIn(page, 'designer@demo.test', '/projects/new');
+	await signInAs(page, 'designer@demo.test', '/projects/new');
 	// Retried as a whole if a late hydration wiped what was typed (development servers).
 	await expect(async () => {
 		if (!page.url().endsWith('/projects/new')) await page.goto('/projects/new');
@@ -98,7 +87,7 @@ test('a shortlist goes from designer to lead, is sent back, resubmitted and appr
 	}).toPass({ timeout: 30_000 });
 	await mail.getByRole('link', { name: new RegExp(`${projectPath}$`) }).click();
 	await expect(page).toHaveURL(/\/signin\?next=/);
-	await signIn(page, 'lead@demo.test', projectPath);
+	await signInAs(page, 'lead@demo.test', projectPath);
 	await expect(page).toHaveURL(new RegExp(`${projectPath}$`));
 	await expect(page.getByRole('heading', { name: 'Your decision' })).toBeVisible();
 	await page.getByLabel(/^Comment/).fill(`Drop ${leaky}: it misses the leakage target.`);
@@ -108,7 +97,7 @@ test('a shortlist goes from designer to lead, is sent back, resubmitted and appr
 	await signOut(page);
 
 	// The designer removes the leaky part and sends it again.
-	await signIn(page, 'designer@demo.test', projectPath);
+	await signInAs(page, 'designer@demo.test', projectPath);
 	await expect(page.getByTestId('review-event').filter({ hasText: `Drop ${leaky}` })).toBeVisible();
 	await page.getByRole('button', { name: `Remove ${leaky} from the shortlist` }).click();
 	await expect(page.getByTestId('entry')).toHaveCount(1);
@@ -118,7 +107,7 @@ test('a shortlist goes from designer to lead, is sent back, resubmitted and appr
 	await signOut(page);
 
 	// The lead approves; the exports appear; the printable record renders.
-	await signIn(page, 'lead@demo.test', projectPath);
+	await signInAs(page, 'lead@demo.test', projectPath);
 	await page.getByLabel(/^Comment/).fill('Approved for rev B.');
 	await page.getByRole('button', { name: 'Approve the shortlist' }).click();
 	await expect(page.getByText('Approved', { exact: true }).first()).toBeVisible();

@@ -3,6 +3,7 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle, SESSION_COOKIES } from '$lib/server/auth';
 import { apiError, isDatabaseDown } from '$lib/server/api';
 import { client } from '$lib/server/db';
+import { isCrossSiteFormWrite } from '$lib/server/csrf';
 import { startOutboxWorker, stopOutboxWorker } from '$lib/server/mail';
 import * as people from '$lib/server/people';
 import * as tokens from '$lib/server/tokens';
@@ -72,6 +73,15 @@ const gate: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
+const originCheck: Handle = async ({ event, resolve }) => {
+	if (isCrossSiteFormWrite(event.request, event.url.origin)) {
+		const message = `Cross-site ${event.request.method} form submissions are forbidden`;
+		if (event.url.pathname.startsWith('/api/')) return apiError(403, message);
+		return new Response(message, { status: 403, headers: { 'content-type': 'text/plain; charset=utf-8' } });
+	}
+	return resolve(event);
+};
+
 const securityHeaders: Handle = async ({ event, resolve }) => {
 	let response = await resolve(event);
 	// A page whose load lost the database mid-way is an outage, not a bug: say so with 503.
@@ -89,7 +99,7 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(securityHeaders, authHandle, identify, gate);
+export const handle = sequence(securityHeaders, originCheck, authHandle, identify, gate);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (isDatabaseDown(error)) {

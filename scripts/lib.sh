@@ -125,9 +125,11 @@ start_mail_catcher() {
 stop_process() {
 	local pid=$1 i
 	[ -n "$pid" ] || return 0
-	pkill -TERM -P "$pid" 2>/dev/null; kill -TERM "$pid" 2>/dev/null || return 0
+	pkill -TERM -P "$pid" 2>/dev/null || true
+	kill -TERM "$pid" 2>/dev/null || return 0
 	for i in $(seq 1 100); do kill -0 "$pid" 2>/dev/null || return 0; sleep 0.1; done
-	pkill -KILL -P "$pid" 2>/dev/null; kill -KILL "$pid" 2>/dev/null
+	pkill -KILL -P "$pid" 2>/dev/null || true
+	kill -KILL "$pid" 2>/dev/null || true
 	return 0
 }
 

@@ -44,7 +44,7 @@ export function endpoint(handler: (event: RequestEvent) => Promise<Response> | R
 }
 
 // Connection refused or lost, server shutting down or starting up.
-const DOWN_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'CONNECTION_CLOSED', 'CONNECTION_ENDED', 'CONNECTION_DESTROYED', 'CONNECT_TIMEOUT', '57P01', '57P02', '57P03']);
+const DOWN_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'CONNECTION_CLOSED', 'CONNECTION_ENDED', 'CONNECTION_DESTROYED', 'CONNECT_TIMEOUT', '57P01', '57P02', '57P03']);
 
 export function isDatabaseDown(e: unknown): boolean {
 	// Drizzle wraps driver errors: look at the cause too.

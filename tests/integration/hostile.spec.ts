@@ -1,10 +1,11 @@
 // Hostile input: property-based bodies (fast-check) for every JSON API, CSV junk for uploads,
 // injection strings in text fields, oversized bodies. Never a 5xx, never a partial write.
+import { request as httpRequest } from 'node:http';
 import fc from 'fast-check';
 import { sql } from 'drizzle-orm';
 import { beforeAll, describe, expect, test } from 'vitest';
 import { db } from '$lib/server/db';
-import { api, browse, tokenFor, unique } from './helpers';
+import { APP_URL, api, browse, tokenFor, unique } from './helpers';
 
 /** Cases per endpoint: a few dozen here; the benchmark run uses FUZZ_RUNS=1000. */
 const RUNS = Number(process.env.FUZZ_RUNS ?? 40);
@@ -169,5 +170,47 @@ describe('oversized bodies', () => {
 		expect(r.status).toBe(413);
 		expect(r.body.error.code).toBe('too_large');
 		expect(await counts()).toEqual(before);
+		// Control: the same body sent whole is a valid upload, so the cut is what stopped it.
+		const whole = await fetch(url, {
+			method: 'POST',
+			headers: { authorization: `Bearer ${token}`, 'content-type': `multipart/form-data; boundary=${boundary}` },
+			body: full
+		});
+		expect(whole.status, await whole.text()).toBe(201);
+	});
+});
+
+describe('interrupted uploads', () => {
+	test('an upload cut off mid-stream writes nothing', async () => {
+		const token = await tokenFor('librarian');
+		const before = await counts();
+		const boundary = 'cut-' + unique();
+		const head = `--${boundary}\r\nContent-Disposition: form-data; name="sample"\r\n\r\ncut1\r\n--${boundary}\r\nContent-Disposition: form-data; name="temperatureC"\r\n\r\n25\r\n--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="cut.csv"\r\nContent-Type: text/csv\r\n\r\nV,I\n`;
+		const rows = Array.from({ length: 2000 }, (_, k) => `${(0.3 + k * 0.0002).toFixed(4)},${(1e-9 * Math.exp(k / 200)).toExponential(4)}\n`).join('');
+		const full = Buffer.from(head + rows + `\r\n--${boundary}--\r\n`);
+		const url = new URL(`/api/v1/junctions/${partId}/runs`, APP_URL);
+		await new Promise<void>((resolve) => {
+			const req = httpRequest(url, {
+				method: 'POST',
+				headers: { authorization: `Bearer ${token}`, 'content-type': `multipart/form-data; boundary=${boundary}`, 'content-length': String(full.length) }
+			});
+			req.on('error', () => resolve());
+			req.on('response', (res) => {
+				res.resume();
+				res.on('end', () => resolve());
+			});
+			// Half the body, then the connection drops.
+			req.write(full.subarray(0, Math.floor(full.length / 2)), () => setTimeout(() => req.destroy(), 200));
+		});
+		// Give the server a moment to notice and roll back whatever it had started.
+		await new Promise((r) => setTimeout(r, 500));
+		expect(await counts()).toEqual(before);
+		// Control: the same body sent whole is a valid upload, so the cut is what stopped it.
+		const whole = await fetch(url, {
+			method: 'POST',
+			headers: { authorization: `Bearer ${token}`, 'content-type': `multipart/form-data; boundary=${boundary}` },
+			body: full
+		});
+		expect(whole.status, await whole.text()).toBe(201);
 	});
 });

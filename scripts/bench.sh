@@ -16,5 +16,12 @@ start_app "$DATA/bench-server.log"
 cd "$ROOT"
 case "$what" in
 	load) npx tsx tests/bench/load.ts ;;
-	*) npx tsx tests/bench/run.ts ;;
+	*)
+		npx tsx tests/bench/run.ts
+		# Hostile input at benchmark strength: FUZZ_RUNS cases per property (≥ 1,000 in all).
+		export FUZZ_RUNS=${FUZZ_RUNS:-100}
+		npx vitest run --project integration tests/integration/hostile.spec.ts \
+			--reporter=default --reporter=json --outputFile="$DATA/bench-fuzz.json" || true
+		npx tsx tests/bench/fuzz-record.ts "$DATA/bench-fuzz.json" "$FUZZ_RUNS"
+		;;
 esac

@@ -62,6 +62,11 @@ describe('sweep CSV: accepted forms', () => {
 		expect(s.runs.map((r) => Math.round(r.temperatureC))).toEqual([25, 85]);
 	});
 
+	it('ignores empty cells after the last column (a trailing separator)', () => {
+		const s = parseSweepCsv('V,I\n0.3,1e-9,\n0.4,5e-8,,\n0.5,2e-6\n', { temperatureC: 25 });
+		expect(Array.from(s.runs[0].voltageV)).toEqual([0.3, 0.4, 0.5]);
+	});
+
 	it('reads files without a header as volts and amperes, with a warning', () => {
 		const s = parseSweepCsv('0.3,1e-9\n0.4,5e-8\n0.5,2e-6\n', { temperatureC: 25 });
 		expect(s.runs[0].voltageV.length).toBe(3);
@@ -108,7 +113,12 @@ const MALFORMED: [string, string, number | undefined, string | undefined, RegExp
 	['unknown temperature unit', 'V,I,Temp (F)\n0.3,1e-9,77\n0.4,5e-8,77\n0.5,2e-6,77\n', 1, 'Temp (F)', /unknown temperature unit/],
 	['text in temperature', 'V,I,Temp\n0.3,1e-9,warm\n0.4,5e-8,25\n0.5,2e-6,25\n', 2, 'Temp', /expected a number/],
 	['repeats that disagree', 'V,I\n0.4,1e-9\n0.4,1e-6\n0.4,1e-3\n0.4,1\n0.5,2e-6\n0.6,1e-5\n', 2, 'I', /disagree/],
-	['unknown cell unit', 'V,I\n0.3,1 nF\n0.4,2\n0.5,3\n', 2, 'I', /unknown unit/]
+	['unknown cell unit', 'V,I\n0.3,1 nF\n0.4,2\n0.5,3\n', 2, 'I', /unknown unit/],
+	// "0,45,1e-9" must not be read as V = 0, I = 45.
+	['decimal comma in a comma-separated file', GOOD + '0,45,1e-9\n', 6, undefined, /^3 cells where 2 were expected \(header: V \(V\), I \(A\)\); a decimal comma/],
+	['extra cell in a semicolon-separated file', 'V;I\n0,3;1e-9\n0,4;5e-8;7\n0,5;2e-6\n', 3, undefined, /^3 cells where 2 were expected \(header: V, I\)$/],
+	['extra cell in a file without a header', '0.3,1e-9\n0.4,5e-8\n0.5,2e-6,1\n', 3, undefined, /^3 cells where 2 were expected \(first row: V, I\)/],
+	['extra cells after an empty one', 'V,I\n0.3,1e-9\n0.4,5e-8,,x\n0.5,2e-6\n', 3, undefined, /^4 cells where 2 were expected/]
 ];
 
 describe('sweep CSV: malformed files', () => {

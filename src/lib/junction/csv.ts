@@ -6,7 +6,8 @@
  * columns; `;`- or tab-separated files with decimal commas; a UTF-8 BOM.
  * Points from repeated traces and overlapping current ranges are merged by
  * averaging within narrow voltage bins; points far from their bin's median are
- * rejected and counted. Every problem is reported with its 1-based file row
+ * rejected and counted. A row with more (non-empty) cells than the header is refused,
+ * since its values cannot be assigned to columns. Every problem is reported with its 1-based file row
  * (header = row 1) and column name, all at once, in a `SweepError`.
  */
 import Papa from 'papaparse';
@@ -249,6 +250,21 @@ export function parseSweepCsv(text: string, options: SweepOptions = {}): ParsedS
 		const vRaw = cells[vc.index];
 		if ((vRaw === undefined || vRaw.trim() === '') && cells.every((c) => c.trim() === '')) continue;
 		const row = r + 1;
+		// More cells than the header means the columns are misaligned, most often a decimal comma
+		// in a comma-separated file ("0,45,1e-9" is not V = 0, I = 45). Trailing empty cells are harmless.
+		if (cells.length > headerCells.length) {
+			let used = cells.length;
+			while (used > headerCells.length && cells[used - 1].trim() === '') used--;
+			if (used > headerCells.length) {
+				const hint = delimiter === ',' ? '; a decimal comma in a comma-separated file? Use decimal points, or separate columns with semicolons' : '';
+				issues.push({
+					row,
+					message: `${used} cells where ${headerCells.length} were expected (${hasHeader ? 'header' : 'first row'}: ${headerCells.join(', ')})${hint}`
+				});
+				if (issues.length >= maxIssues) break;
+				continue;
+			}
+		}
 		const v = readCell(cells[vc.index], vc, row);
 		const i = readCell(cells[ic.index], ic, row);
 		let t = options.temperatureC ?? NaN;

@@ -72,6 +72,18 @@ describe('parsing quantities as typed', () => {
 		expect(t.scale).toBe(scale);
 	});
 
+	it('returns the typed scale exactly, converting only the other one', () => {
+		// 25 + 273.15 − 273.15 is 25.000000000000025 in binary floating point; the °C value must not take that path.
+		expect(parseTemperature('25').celsius).toBe(25);
+		expect(parseTemperature('25 °C').celsius).toBe(25);
+		expect(parseTemperature('-40 °C').celsius).toBe(-40);
+		expect(parseTemperature('0.1 °C').celsius).toBe(0.1);
+		expect(parseTemperature('300 K').kelvin).toBe(300);
+		// T = t + 273.15 by definition of the Celsius scale (BIPM SI Brochure, 9th ed., 2019, §2.3.1).
+		expect(parseTemperature('25').kelvin).toBe(25 + 273.15);
+		expect(parseTemperature('300 K').celsius).toBe(300 - 273.15);
+	});
+
 	it('rejects impossible temperatures with an explanation', () => {
 		expect(() => parseTemperature('hot')).toThrow('expected a temperature such as 85 °C or 358.15 K');
 		expect(() => parseTemperature('-300 C')).toThrow('absolute zero');
@@ -88,13 +100,22 @@ describe('formatting', () => {
 		[0.99996, 'V', '1 V'],
 		[2.2e6, 'Ω', '2.2 MΩ'],
 		[0, 'A', '0 A'],
-		[1.234567e-9, 'A', '1.23 nA']
+		[1.234567e-9, 'A', '1.23 nA'],
+		// Below the smallest prefix (yocto, 1e-24): exponent form, not '0 yA'.
+		[1e-24, 'A', '1 yA'],
+		[3.2e-27, 'A', '3.2e\u221227 A'],
+		[-4.56e-30, 'A', '\u22124.56e\u221230 A'],
+		[5e-325 + 5e-324, 'A', '4.94e\u2212324 A'],
+		[9.9949e-25, 'A', '9.99e\u221225 A'],
+		[9.9999e-25, 'A', '1 yA']
 	] as const)('formatSI(%s, %s) = %s', (v, u, s) => {
 		expect(formatSI(v, u)).toBe(s);
 	});
 
 	it('keeps zeros when asked and fixes bias decimals', () => {
 		expect(formatSI(3.2e-15, 'A', { trimZeros: false })).toBe('3.20 fA');
+		expect(formatSI(3e-27, 'A', { trimZeros: false })).toBe('3.00e\u221227 A');
+		expect(formatSI(3e-27, '')).toBe('3e\u221227');
 		expect(formatBias(-5)).toBe('\u22125.000 V');
 		expect(formatBias(0.6123)).toBe('0.612 V');
 		expect(formatBias(-0.0001)).toBe('0.000 V');
@@ -103,7 +124,7 @@ describe('formatting', () => {
 	});
 
 	it('round-trips formatted values through the parser within the shown precision', () => {
-		for (const v of [3.21e-15, 4.56e-9, 0.612, 12.3, 4.7e3]) {
+		for (const v of [3.21e-15, 4.56e-9, 0.612, 12.3, 4.7e3, 3.21e-27, -4.56e-30]) {
 			expectRelClose(parseQuantity(formatSI(v, 'A'), 'current'), v, 5e-3);
 		}
 	});

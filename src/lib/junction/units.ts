@@ -124,7 +124,10 @@ export interface ParsedTemperature {
 
 /**
  * Parse a temperature typed as `85 °C`, `85C`, `85 degC`, `358.15 K` or a bare
- * number (read as °C, scale reported as 'C?'). Kelvin: T = t + 273.15 (exact).
+ * number (read as °C, scale reported as 'C?'). Kelvin: T = t + 273.15 (exact by the
+ * definition of the Celsius scale, BIPM SI Brochure, 9th ed., 2019, §2.3.1). The scale
+ * the text was written in is returned as typed (`'25'` gives exactly 25 °C); only the
+ * other one is converted.
  * @throws Error when the text is not a temperature or lies at or below absolute zero.
  */
 export function parseTemperature(text: string): ParsedTemperature {
@@ -143,7 +146,7 @@ export function parseTemperature(text: string): ParsedTemperature {
 	if (!Number.isFinite(value)) throw new Error(expected);
 	const kelvin = scale === 'K' ? value : value + ZERO_CELSIUS_K;
 	if (!(kelvin > 0)) throw new Error(`temperature '${text}' is at or below absolute zero`);
-	return { celsius: kelvin - ZERO_CELSIUS_K, kelvin, scale };
+	return { celsius: scale === 'K' ? value - ZERO_CELSIUS_K : value, kelvin, scale };
 }
 
 const FORMAT_PREFIXES: [number, string][] = [
@@ -173,8 +176,11 @@ export interface FormatOptions {
 export const MINUS = '\u2212';
 
 /**
- * Format a value in base SI units with an SI prefix and a unit symbol:
+ * Format a value in base SI units with an SI prefix (BIPM SI Brochure, 9th ed., 2019,
+ * Table 7, yocto … tera) and a unit symbol:
  * `formatSI(3.2e-15,'A') = '3.2 fA'`, `formatSI(0.612,'V') = '612 mV'`.
+ * Magnitudes that round below 1 y (10⁻²⁴) are written in exponent form without a prefix,
+ * `formatSI(3.2e-27,'A') = '3.2e−27 A'`, which `parseQuantity` reads back.
  * Negative values use the Unicode minus sign.
  * @throws RangeError when the value is not finite.
  */
@@ -189,7 +195,14 @@ export function formatSI(value: number, unit: string, options: FormatOptions = {
 	let mag = Math.abs(value);
 	// Round first so that 999.96 mV becomes 1.00 V rather than 1000 mV.
 	mag = Number(mag.toPrecision(digits));
-	let chosen = FORMAT_PREFIXES[FORMAT_PREFIXES.length - 1];
+	const smallest = FORMAT_PREFIXES[FORMAT_PREFIXES.length - 1];
+	if (mag < smallest[0] * (1 - 1e-12)) {
+		const [mant, exp] = mag.toExponential(digits - 1).split('e');
+		const m = trim && mant.includes('.') ? mant.replace(/\.?0+$/, '') : mant;
+		const e = Number(exp);
+		return `${sign}${m}e${e < 0 ? MINUS : ''}${Math.abs(e)}${sep}${unit}`;
+	}
+	let chosen = smallest;
 	for (const p of FORMAT_PREFIXES) {
 		if (mag >= p[0] * (1 - 1e-12)) {
 			chosen = p;

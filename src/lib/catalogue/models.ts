@@ -1,28 +1,27 @@
 // Conversions between the catalogue's stored models (SPICE names, optional keys) and the
 // engine's complete models, plus the flags every screen shows in words.
-import { createModel, currentAtBias, scaleModel, type JunctionMaterial, type JunctionModel } from '$lib/junction';
+import { createModel, currentAtBias, scaleModel, type JunctionModel } from '$lib/junction';
 import type { StoredModel } from '$lib/server/db/schema/catalogue';
 import type { JunctionKind, Material } from './vocabulary';
 
 export type { StoredModel };
 
 /**
- * Activation energies the catalogue assumes when the engine has no default and the part
- * gives none: germanium 0.67 eV and a visible LED's ≈1.9 eV (textbook band gaps, e.g.
- * Sze & Ng, Physics of Semiconductor Devices, 3rd ed., Appendix G). Shown as assumed.
+ * The engine's material for a part. The engine uses the catalogue's material names and
+ * owns their EG/XTI defaults (MATERIAL_DEFAULTS in src/lib/junction/model.ts, including
+ * germanium and the assumed wide-gap EG); a Schottky part is metal–semiconductor whatever
+ * its material column says.
  */
-export const ASSUMED_EG: Partial<Record<Material, number>> = { germanium: 0.67, 'wide-gap': 1.9 };
-
-/** The engine's material for a catalogue material. Germanium is a PN junction with its own EG. */
-export function engineMaterial(material: Material): JunctionMaterial {
-	if (material === 'metal-semiconductor') return 'schottky';
-	if (material === 'wide-gap') return 'wide-gap';
-	return 'silicon';
+export function engineMaterial(material: Material, kind?: JunctionKind): Material {
+	return kind === 'schottky' ? 'metal-semiconductor' : material;
 }
 
-/** EG to hand the engine when the data cannot determine it, or undefined for the engine's default. */
-export function egFor(material: Material, given?: StoredModel | null): number | undefined {
-	return given?.EG ?? ASSUMED_EG[material];
+/**
+ * EG to hand the engine for single-temperature data: the part's given EG, or undefined
+ * so that the engine applies its material default (and marks it when assumed).
+ */
+export function egFor(_material: Material, given?: StoredModel | null): number | undefined {
+	return given?.EG ?? undefined;
 }
 
 const KEYS = ['IS', 'N', 'RS', 'RSH', 'ISR', 'NR', 'BV', 'IBV', 'EG', 'XTI', 'TNOM', 'CJO', 'VJ', 'M', 'FC'] as const;
@@ -31,7 +30,6 @@ const KEYS = ['IS', 'N', 'RS', 'RSH', 'ISR', 'NR', 'BV', 'IBV', 'EG', 'XTI', 'TN
 export function toEngine(stored: StoredModel, material: Material): JunctionModel {
 	const input: Record<string, number> = {};
 	for (const k of KEYS) if (stored[k] !== undefined && stored[k] !== null) input[k] = stored[k] as number;
-	if (input.EG === undefined && ASSUMED_EG[material] !== undefined) input.EG = ASSUMED_EG[material] as number;
 	return createModel(input as unknown as JunctionModel, engineMaterial(material));
 }
 

@@ -1,13 +1,13 @@
 // The catalogue's words, importable by browser code (the Drizzle schema is server-only).
-// The type checks at the bottom keep these lists equal to the schema's.
+// Kinds and materials are the engine's lists (one vocabulary for engine, API and screens);
+// the type checks at the bottom keep these lists equal to the schema's.
 import type { JunctionKind as SchemaKind, Lifecycle as SchemaLifecycle, Material as SchemaMaterial } from '$lib/server/db/schema/catalogue';
+import { JUNCTION_KINDS, MATERIALS, type JunctionKind, type Material } from '../junction/names';
 
-export const JUNCTION_KINDS = ['diode', 'schottky', 'bjt-be', 'bjt-diode', 'jfet-gate', 'led'] as const;
-export type JunctionKind = (typeof JUNCTION_KINDS)[number];
+export { JUNCTION_KINDS, MATERIALS };
+export type { JunctionKind, Material };
 export const LIFECYCLES = ['in-use', 'not-for-new', 'retired'] as const;
 export type Lifecycle = (typeof LIFECYCLES)[number];
-export const MATERIALS = ['silicon', 'metal-semiconductor', 'germanium', 'wide-gap'] as const;
-export type Material = (typeof MATERIALS)[number];
 
 export const KIND_LABEL: Record<JunctionKind, string> = {
 	diode: 'PN diode',

@@ -5,8 +5,9 @@ import { createModel, type JunctionModelInput } from './model';
 import { emitModelCard } from './spice-card';
 import { fitSweepCsv } from './fit';
 import { FitError } from './errors';
+import { MATERIAL_DEFAULTS } from './model';
 import { thermalVoltage, celsiusToKelvin } from './constants';
-import { seededRandom } from './test-helpers';
+import { mulberry32 } from '../random';
 
 const CURRENTS = Array.from({ length: 36 }, (_, k) => 10 ** (-9 + k / 5)); // 1 nA … ~10 mA, 5 per decade
 
@@ -41,7 +42,7 @@ function ngspiceForward(input: JunctionModelInput, tempsC: number[], reverse?: {
 
 /** CSV with 3 traces, two current ranges, 2 % current noise and ±0.2 mV voltage noise (seeded). */
 function noisyCsv(points: { t: number; i: number; v: number }[], seed: number, noise = true): string {
-	const rand = seededRandom(seed);
+	const rand = mulberry32(seed);
 	const rows = ['V (V),I (A),Trace,Range,Temp (°C)'];
 	for (let trace = 1; trace <= 3; trace++)
 		for (const p of points) {
@@ -119,6 +120,11 @@ describe('fitting ngspice-generated sweeps', () => {
 		const r = fitSweepCsv(noisyCsv([...rev, ...fwd.filter((p) => p.i > 1e-7)], 5));
 		expect(r.model.RSH).toBeDefined();
 		expect(Math.abs((r.model.RSH as number) / rsh - 1)).toBeLessThan(0.2);
+		// The shunt is kept only when resolved from zero, so its 95 % interval is finite on both ends.
+		const iv = r.interval.RSH as [number, number];
+		expect(iv[0]).toBeLessThan(r.model.RSH as number);
+		expect(iv[1]).toBeGreaterThan(r.model.RSH as number);
+		expect(Number.isFinite(iv[1])).toBe(true);
 		expect(r.range.reverseMeasured).toBe(true);
 		expect(r.range.voltageV[0]).toBeCloseTo(-10, 2);
 	});
@@ -145,8 +151,57 @@ describe('refusing to fit', () => {
 		expect(fitErr(text)).toMatch(pattern);
 	});
 
-	it('needs EG for wide-gap parts measured at one temperature', () => {
+});
+
+describe('wide-gap parts measured at one temperature', () => {
+	it('use the assumed EG of 1.9 eV, marked on the model and in a warning', () => {
 		const { fwd } = ngspiceForward({ IS: 1e-14, N: 1.05, RS: 5 }, [25]);
-		expect(() => fitSweepCsv(noisyCsv(fwd, 1), { material: 'wide-gap' })).toThrow(FitError);
+		const r = fitSweepCsv(noisyCsv(fwd, 1), { material: 'wide-gap' });
+		expect(r.model.EG).toBe(MATERIAL_DEFAULTS['wide-gap'].EG);
+		expect(r.model.egAssumed).toBe(true);
+		expect(r.warnings.some((w) => /EG 1\.9 eV assumed/.test(w.message))).toBe(true);
+	});
+
+	it('are not marked when EG is given', () => {
+		const { fwd } = ngspiceForward({ IS: 1e-14, N: 1.05, RS: 5 }, [25]);
+		const r = fitSweepCsv(noisyCsv(fwd, 1), { material: 'wide-gap', EG: 2.4 });
+		expect(r.model.EG).toBe(2.4);
+		expect(r.model.egAssumed).toBeUndefined();
+		expect(r.warnings.some((w) => /assumed/.test(w.message))).toBe(false);
+	});
+});
+
+describe('excluding a voltage window', () => {
+	// A heating tail: above 0.75 V the measured current sags to a third of the model's.
+	const truth = { IS: 2e-15, N: 1.3, RS: 8 };
+	const withTail = () => {
+		const { fwd } = ngspiceForward(truth, [25]);
+		return fwd.map((p) => (p.v > 0.75 ? { ...p, i: p.i / 3 } : p));
+	};
+
+	it('leaves the points inside [lo, hi] out of the fit and counts them', () => {
+		const pts = withTail();
+		const inside = pts.filter((p) => p.v >= 0.75 && p.v <= 5).length;
+		expect(inside).toBeGreaterThan(3);
+		const csv = noisyCsv(pts, 9, false);
+		const spoiled = fitSweepCsv(csv);
+		const r = fitSweepCsv(csv, { excludeV: [0.75, 5] });
+		// Three traces per point in the CSV, merged into one point each.
+		expect(r.quality.excluded).toBe(3 * inside);
+		expect(r.range.voltageV[1]).toBeLessThan(0.75);
+		expect(Math.abs(r.model.N / truth.N - 1)).toBeLessThan(0.01);
+		expect(Math.abs(spoiled.model.N / truth.N - 1)).toBeGreaterThan(Math.abs(r.model.N / truth.N - 1));
+		expect(spoiled.quality.excluded).toBeUndefined();
+	});
+
+	it('refuses an inverted or non-finite window', () => {
+		const csv = noisyCsv(withTail(), 9, false);
+		expect(() => fitSweepCsv(csv, { excludeV: [0.8, 0.7] })).toThrow(RangeError);
+		expect(() => fitSweepCsv(csv, { excludeV: [NaN, 1] })).toThrow(RangeError);
+	});
+
+	it('reports a run left without enough forward points as a fit error', () => {
+		const csv = noisyCsv(withTail(), 9, false);
+		expect(() => fitSweepCsv(csv, { excludeV: [0, 5] })).toThrow(FitError);
 	});
 });

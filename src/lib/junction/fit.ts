@@ -14,7 +14,7 @@
  */
 import { levenbergMarquardt } from 'ml-levenberg-marquardt';
 import { SI_2019, celsiusToKelvin, type PhysicalConstants } from './constants';
-import { createModel, MATERIAL_DEFAULTS, type JunctionMaterial, type JunctionModel } from './model';
+import { canonicalMaterial, createModel, MATERIAL_DEFAULTS, type JunctionMaterial, type JunctionModel } from './model';
 import { FitError, type DataIssue } from './errors';
 import { invert, leastSquares, tQuantile975 } from './linalg';
 import { parseSweepCsv, type ParsedSweep, type SweepOptions, type SweepRun } from './csv';
@@ -22,7 +22,10 @@ import { parseSweepCsv, type ParsedSweep, type SweepOptions, type SweepRun } fro
 export interface FitOptions {
 	constants?: PhysicalConstants;
 	material?: JunctionMaterial;
-	/** Activation energy to use for single-temperature data [eV] (default: material's). */
+	/**
+	 * Activation energy to use for single-temperature data [eV] (default: the material's,
+	 * MATERIAL_DEFAULTS; for wide-gap parts that default is assumed and the fit warns).
+	 */
 	EG?: number;
 	/** Held saturation-current temperature exponent (default: material's). */
 	XTI?: number;
@@ -30,14 +33,26 @@ export interface FitOptions {
 	minPoints?: number;
 	/** Minimum decades of forward current (default 1). */
 	minDecades?: number;
+	/**
+	 * Leave out every merged point whose voltage lies in [lo, hi] (inclusive) [V], e.g. a
+	 * heating tail a librarian has marked; the raw points left out are counted in
+	 * `quality.excluded`. The measured ranges then describe the points kept.
+	 */
+	excludeV?: [number, number];
 }
 
+/** A 95 % interval [lower, upper]. */
 export type Interval = [number, number];
 
 export interface FitResult {
 	model: JunctionModel;
+	/**
+	 * 95 % intervals. RSH has one only when a shunt was resolved, i.e. its conductance is
+	 * above zero at 95 %, so both ends of the RSH interval are finite.
+	 */
 	interval: { IS: Interval; N: Interval; RS: Interval; RSH?: Interval; EG?: Interval };
-	quality: { points: number; rejected: number; rmsResidualV: number };
+	/** Points fitted, raw points rejected as outliers, RMS residual [V]; `excluded` = raw points left out by `excludeV` (only when it was given). */
+	quality: { points: number; rejected: number; rmsResidualV: number; excluded?: number };
 	range: {
 		currentA: Interval;
 		voltageV: Interval;
@@ -191,6 +206,27 @@ function medianOf(xs: number[]): number {
 	return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
 }
 
+/** The runs without the merged points whose voltage lies in [lo, hi], and how many raw points those held. */
+function excludeWindow(runs: SweepRun[], [lo, hi]: [number, number]): { runs: SweepRun[]; excluded: number } {
+	if (!Number.isFinite(lo) || !Number.isFinite(hi) || lo > hi) throw new RangeError(`excludeV must be a finite [lo, hi] with lo ≤ hi, got [${lo}, ${hi}]`);
+	let excluded = 0;
+	const out = runs.map((r) => {
+		const keep: number[] = [];
+		for (let k = 0; k < r.voltageV.length; k++) {
+			if (r.voltageV[k] < lo || r.voltageV[k] > hi) keep.push(k);
+			else excluded += r.count[k];
+		}
+		return {
+			...r,
+			voltageV: Float64Array.from(keep, (k) => r.voltageV[k]),
+			currentA: Float64Array.from(keep, (k) => r.currentA[k]),
+			count: Int32Array.from(keep, (k) => r.count[k]),
+			points: keep.reduce((a, k) => a + r.count[k], 0)
+		};
+	});
+	return { runs: out, excluded };
+}
+
 /**
  * Fit a junction model to a parsed sweep (one run, or several at different temperatures).
  * Returns the model with 95 % intervals, fit quality and the measured range.
@@ -198,17 +234,17 @@ function medianOf(xs: number[]): number {
  */
 export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResult {
 	const constants = options.constants ?? SI_2019;
-	const material = options.material ?? 'silicon';
+	const material = canonicalMaterial(options.material ?? 'silicon');
 	const minPoints = options.minPoints ?? 5;
 	const minDecades = options.minDecades ?? 1;
 	const XTI = options.XTI ?? MATERIAL_DEFAULTS[material].XTI;
-	const reasons = sweep.runs.flatMap((r) => checkRun(r, minPoints, minDecades));
+	const cut = options.excludeV ? excludeWindow(sweep.runs, options.excludeV) : null;
+	const runs = cut ? cut.runs : sweep.runs;
+	const reasons = runs.flatMap((r) => checkRun(r, minPoints, minDecades));
 	if (reasons.length) throw new FitError(reasons);
-	const runs = sweep.runs;
 	const fitEG = runs.length >= 2;
 	const egDefault = options.EG ?? MATERIAL_DEFAULTS[material].EG;
-	if (!fitEG && egDefault === undefined)
-		throw new FitError([`a ${material} junction needs EG given, or sweeps at two or more temperatures to estimate it`]);
+	const egAssumed = !fitEG && options.EG === undefined && MATERIAL_DEFAULTS[material].assumed === true;
 	// Nominal temperature: the run nearest 27 °C, so IS is reported where it was measured.
 	const nomRun = runs.reduce((b, r) => (Math.abs(r.temperatureC - 27) < Math.abs(b.temperatureC - 27) ? r : b));
 	const tnomC = Math.round(nomRun.temperatureC * 100) / 100;
@@ -235,7 +271,7 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 	}
 	const N0 = starts.reduce((a, s) => a + s.N, 0) / starts.length;
 	const RS0 = Math.max(0, starts.reduce((a, s) => a + s.RS, 0) / starts.length);
-	let EG0 = egDefault ?? 1.1;
+	let EG0 = egDefault;
 	let lnIS0 = starts.find((s) => Math.abs(s.Tk - tnK) < 1e-9)?.lnIS ?? starts[0].lnIS;
 	if (fitEG) {
 		// N·ln IS(T) − XTI·ln T = const − EG·q/(k·T): a straight line in 1/T gives the EG start.
@@ -246,7 +282,7 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 		lnIS0 = (c + XTI * Math.log(tnK) - (EG0 * constants.q) / (constants.k * tnK)) / N0;
 		if (!Number.isFinite(lnIS0)) lnIS0 = starts[0].lnIS;
 	}
-	const ev = evaluator(pts, tnK, XTI, egDefault ?? EG0, fitEG);
+	const ev = evaluator(pts, tnK, XTI, egDefault, fitEG);
 	let start = fitEG ? [lnIS0, N0, RS0, EG0] : [lnIS0, N0, RS0];
 	let p = runLM(pts, ev, start, fitEG);
 
@@ -261,7 +297,7 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 	if (nBad > 0 && pts.I.length - nBad >= minPoints) {
 		const f = <T>(a: T[]) => a.filter((_, k) => !bad[k]);
 		usePts = { I: f(pts.I), V: f(pts.V), Tk: f(pts.Tk), vt: f(pts.vt) };
-		useEv = evaluator(usePts, tnK, XTI, egDefault ?? EG0, fitEG);
+		useEv = evaluator(usePts, tnK, XTI, egDefault, fitEG);
 		start = p;
 		p = runLM(usePts, useEv, start, fitEG);
 		r = residuals(usePts, useEv, p);
@@ -293,7 +329,7 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 		N: [N - t * sd(1), N + t * sd(1)],
 		RS: [Math.max(0, RS - t * sd(2)), RS + t * sd(2)]
 	};
-	const EG = fitEG ? p[3] : (egDefault as number);
+	const EG = fitEG ? p[3] : egDefault;
 	if (fitEG) interval.EG = [EG - t * sd(3), EG + t * sd(3)];
 
 	// Shunt: current left over after the Shockley term at reverse / near-zero points of the nominal run.
@@ -322,14 +358,19 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 		if (g > 0 && g > tQuantile975(Math.max(1, m - 1)) * seG) {
 			RSH = 1 / g;
 			const tg = tQuantile975(Math.max(1, m - 1));
-			interval.RSH = [1 / (g + tg * seG), g - tg * seG > 0 ? 1 / (g - tg * seG) : Number.MAX_VALUE];
+			// g − t·se > 0 here (that is the test above), so the upper end is finite and positive.
+			interval.RSH = [1 / (g + tg * seG), 1 / (g - tg * seG)];
 		}
 	}
 	if (RS > 0 && interval.RS[0] === 0) warnings.push({ message: 'RS is not resolved from zero by these data' });
+	if (egAssumed)
+		warnings.push({
+			message: `EG ${EG} eV assumed for a ${material} junction (it varies widely between wide-gap materials); give EG or measure at two or more temperatures`
+		});
 
 	let model: JunctionModel;
 	try {
-		model = createModel({ IS, N, RS, RSH, EG, XTI, TNOM: tnomC }, material);
+		model = createModel({ IS, N, RS, RSH, EG, XTI, TNOM: tnomC, ...(egAssumed ? { egAssumed: true as const } : {}) }, material);
 	} catch (e) {
 		throw new FitError([`fitted parameters are outside the physical domain: ${(e as Error).message}`]);
 	}
@@ -349,7 +390,12 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 	return {
 		model,
 		interval,
-		quality: { points: n, rejected: sweep.rejected + (pts.I.length - n), rmsResidualV: Math.sqrt(ssr / n) },
+		quality: {
+			points: n,
+			rejected: sweep.rejected + (pts.I.length - n),
+			rmsResidualV: Math.sqrt(ssr / n),
+			...(cut ? { excluded: cut.excluded } : {})
+		},
 		range: {
 			currentA: [Math.min(...usePts.I), Math.max(...usePts.I)],
 			voltageV: [vmin, vmax],

@@ -12,7 +12,14 @@
  *  shuntFactorPer10K: RSH falls by this factor for every 10 K of heating (default 2, common practice).
  */
 
-export type JunctionMaterial = 'silicon' | 'schottky' | 'wide-gap';
+import type { Material } from './names';
+
+/**
+ * Material names accepted on input: the catalogue's four (see `MATERIALS`), plus
+ * 'schottky', the engine's earlier name for a metal–semiconductor junction, still read
+ * (as 'metal-semiconductor') so records written with it keep loading.
+ */
+export type JunctionMaterial = Material | 'schottky';
 
 export interface JunctionModel {
 	IS: number;
@@ -32,23 +39,55 @@ export interface JunctionModel {
 	M: number;
 	FC: number;
 	shuntFactorPer10K: number;
-	material: JunctionMaterial;
+	material: Material;
+	/** True when EG is the material's assumed default rather than given or fitted (see MATERIAL_DEFAULTS). */
+	egAssumed?: true;
 }
 
 /** Input accepted by `createModel`: IS is required, the rest falls back to defaults. */
-export type JunctionModelInput = Partial<JunctionModel> & { IS: number };
+export type JunctionModelInput = Partial<Omit<JunctionModel, 'material'>> & { IS: number; material?: JunctionMaterial };
+
+/** Defaults of one material: activation energy EG [eV] and saturation-current exponent XTI [-]. */
+export interface MaterialDefault {
+	EG: number;
+	XTI: number;
+	/**
+	 * The EG is a guess that does not hold for the whole class (wide-gap parts): models
+	 * that fall back on it are marked `egAssumed`, and single-temperature fits warn.
+	 */
+	assumed?: true;
+}
 
 /**
- * EG/XTI defaults by material. Silicon PN 1.11 eV / 3 and metal–semiconductor
- * 0.69 eV / 2 are the values SPICE documentation customarily quotes (Berkeley
- * SPICE2/3 user guides, diode model section; from memory). Wide-gap parts
- * (LEDs, SiC) vary too much to guess, so EG must be supplied.
+ * EG/XTI defaults by material, the one place the catalogue's defaults live.
+ *  - silicon 1.11 eV / 3 and metal–semiconductor 0.69 eV / 2: the values SPICE
+ *    documentation customarily quotes (Berkeley SPICE2/3 user guides, diode model
+ *    section; from memory).
+ *  - germanium 0.67 eV / 3: the 300 K band gap as tabulated in B. G. Streetman and
+ *    S. K. Banerjee, Solid State Electronic Devices, appendix of semiconductor
+ *    properties (from memory; Sze & Ng, Physics of Semiconductor Devices, 3rd ed.,
+ *    Appendix G, give 0.66 eV). XTI 3 is SPICE's PN-junction value, applied to germanium
+ *    PN junctions as common practice.
+ *  - wide-gap 1.9 eV / 3, ASSUMED: about the band gap of a red/amber LED (textbook
+ *    value, from memory); blue/green LEDs and SiC lie far higher (≈2.5–3.3 eV), so
+ *    this default is marked as assumed wherever it is used.
  */
-export const MATERIAL_DEFAULTS: Record<JunctionMaterial, { EG?: number; XTI: number }> = {
+export const MATERIAL_DEFAULTS: Readonly<Record<Material, MaterialDefault>> = {
 	silicon: { EG: 1.11, XTI: 3 },
-	schottky: { EG: 0.69, XTI: 2 },
-	'wide-gap': { XTI: 3 }
+	'metal-semiconductor': { EG: 0.69, XTI: 2 },
+	germanium: { EG: 0.67, XTI: 3 },
+	'wide-gap': { EG: 1.9, XTI: 3, assumed: true }
 };
+
+/**
+ * The catalogue material for an accepted material name ('schottky' → 'metal-semiconductor').
+ * @throws RangeError for an unknown name.
+ */
+export function canonicalMaterial(material: JunctionMaterial): Material {
+	const m = material === 'schottky' ? 'metal-semiconductor' : material;
+	if (!Object.prototype.hasOwnProperty.call(MATERIAL_DEFAULTS, m)) throw new RangeError(`unknown junction material '${String(material)}'`);
+	return m;
+}
 
 /** SPICE defaults for the remaining parameters (ngspice manual, diode model table). */
 export const SPICE_DEFAULTS = {
@@ -70,15 +109,15 @@ function positive(name: string, v: number | undefined, allowZero = false): void 
 }
 
 /**
- * Build a complete, validated model from partial parameters and a material.
- * @throws RangeError for missing/invalid values (e.g. IS ≤ 0, N ≤ 0, FC ≥ 1, wide-gap without EG).
+ * Build a complete, validated model from partial parameters and a material (default
+ * silicon). EG and XTI fall back on MATERIAL_DEFAULTS; a model whose EG is an assumed
+ * default (wide-gap) is marked `egAssumed`.
+ * @throws RangeError for missing/invalid values (e.g. IS ≤ 0, N ≤ 0, FC ≥ 1) or an unknown material.
  */
 export function createModel(input: JunctionModelInput, material?: JunctionMaterial): JunctionModel {
-	const mat: JunctionMaterial = material ?? input.material ?? 'silicon';
+	const mat = canonicalMaterial(material ?? input.material ?? 'silicon');
 	const md = MATERIAL_DEFAULTS[mat];
-	if (!md) throw new RangeError(`unknown junction material '${String(mat)}'`);
 	const EG = input.EG ?? md.EG;
-	if (EG === undefined) throw new RangeError(`EG must be given for a ${mat} junction (no sensible default)`);
 	const model: JunctionModel = {
 		IS: input.IS,
 		N: input.N ?? SPICE_DEFAULTS.N,
@@ -99,6 +138,8 @@ export function createModel(input: JunctionModelInput, material?: JunctionMateri
 	if (input.BV !== undefined) model.BV = input.BV;
 	if (input.NBV !== undefined) model.NBV = input.NBV;
 	if (input.CJO !== undefined) model.CJO = input.CJO;
+	// A model rebuilt from one whose EG was assumed stays marked.
+	if (input.EG === undefined ? md.assumed : input.egAssumed) model.egAssumed = true;
 	validateModel(model);
 	return model;
 }

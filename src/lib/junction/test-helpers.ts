@@ -25,22 +25,3 @@ export function expectAbsClose(actual: number, expected: number, abs: number, la
 		true
 	);
 }
-
-/** Deterministic pseudo-random numbers (mulberry32) so noisy test data is reproducible. */
-export function seededRandom(seed: number): () => number {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
-
-/** Standard normal deviate from a uniform source (Box–Muller). */
-export function gaussian(rand: () => number): number {
-	const u = Math.max(rand(), 1e-300);
-	const v = rand();
-	return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
-}

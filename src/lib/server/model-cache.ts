@@ -7,8 +7,9 @@
  * was down stays stale.
  */
 import type { Sql } from 'postgres';
-import { CatalogueTable, createModel, type JunctionMaterial, type JunctionModel, type PartRecord } from '$lib/junction';
-import type { JunctionKind as EngineKind } from '$lib/junction';
+import { CatalogueTable, createModel, type JunctionModel, type PartRecord } from '$lib/junction';
+import { engineMaterial } from '$lib/catalogue/models';
+import type { Material } from '$lib/catalogue/vocabulary';
 import type { RankKind, RankLifecycle, SpiceModel } from '$lib/schemas/rank';
 import { MODEL_CHANNEL } from './model-events';
 
@@ -36,7 +37,7 @@ type Row = {
 	kind: RankKind;
 	package: string;
 	lifecycle: RankLifecycle;
-	material: string;
+	material: Material;
 	admits_light: boolean;
 	rated_reverse_v: number | null;
 	rated_forward_a: number | null;
@@ -48,33 +49,9 @@ type Row = {
 	measured: { minCurrentA: number | null; temperaturesC: number[]; reverseMeasured: boolean; worstRmsResidualV: number | null };
 };
 
-/** The catalogue's kind names → the engine's. */
-const ENGINE_KIND: Record<RankKind, EngineKind> = {
-	diode: 'diode',
-	schottky: 'schottky',
-	'bjt-be': 'bjt-be',
-	'bjt-diode': 'diode-connected-bjt',
-	'jfet-gate': 'jfet-gate',
-	led: 'led'
-};
-
-/**
- * Germanium band gap for EG when a germanium model gives none: 0.66 eV at 300 K
- * (S. M. Sze, Physics of Semiconductor Devices, 3rd ed., Appendix G).
- */
-const GERMANIUM_EG = 0.66;
-
-function engineMaterial(row: Pick<Row, 'material' | 'kind'>): JunctionMaterial {
-	if (row.material === 'metal-semiconductor' || row.kind === 'schottky') return 'schottky';
-	if (row.material === 'wide-gap') return 'wide-gap';
-	return 'silicon';
-}
-
+/** The engine model of one stored model; EG/XTI defaults by material come from the engine. */
 function toEngineModel(m: SpiceModel, row: Row): JunctionModel {
-	const material = engineMaterial(row);
-	const input = { ...m, shuntFactorPer10K: row.shunt_factor_per_10k };
-	if (row.material === 'germanium' && input.EG === undefined) input.EG = GERMANIUM_EG;
-	return createModel(input, material);
+	return createModel({ ...m, shuntFactorPer10K: row.shunt_factor_per_10k }, engineMaterial(row.material, row.kind));
 }
 
 /** Builds the engine record for a row; throws RangeError when a model is invalid. */
@@ -82,7 +59,7 @@ export function partFromRow(row: Row): CachedPart {
 	const sampleModels = row.sample_models.length > 0 ? row.sample_models : [row.typical];
 	const record: PartRecord = {
 		id: String(row.id),
-		kind: ENGINE_KIND[row.kind] ?? 'diode',
+		kind: row.kind,
 		samples: sampleModels.map((m) => toEngineModel(m, row)),
 		ratings: {
 			...(row.rated_reverse_v !== null ? { reverseV: row.rated_reverse_v } : {}),

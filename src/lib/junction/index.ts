@@ -16,8 +16,10 @@ export {
 	MINUS
 } from './units';
 export type { QuantityKind, ParsedTemperature, FormatOptions } from './units';
-export { createModel, validateModel, MATERIAL_DEFAULTS, SPICE_DEFAULTS } from './model';
-export type { JunctionModel, JunctionModelInput, JunctionMaterial } from './model';
+export { JUNCTION_KINDS, MATERIALS } from './names';
+export type { JunctionKind, Material } from './names';
+export { createModel, validateModel, canonicalMaterial, MATERIAL_DEFAULTS, SPICE_DEFAULTS } from './model';
+export type { JunctionModel, JunctionModelInput, JunctionMaterial, MaterialDefault } from './model';
 export { lambertW0, lambertW0Exp, logLambertW0Exp } from './lambert-w';
 export { scaleModel, saturationCurrentAt, shuntResistanceAt, junctionPotentialAt, logSaturationFactor } from './temperature';
 export type { ScaledJunction } from './temperature';
@@ -49,4 +51,4 @@ export {
 	POOR_FIT_RMS_V,
 	TEMPERATURE_EXTRAPOLATION_K
 } from './rank';
-export type { PartRecord, OperatingPoint, RankResult, RankedPart, FlagCode, JunctionKind } from './rank';
+export type { PartRecord, OperatingPoint, RankOptions, RankResult, RankedPart, FlagCode } from './rank';

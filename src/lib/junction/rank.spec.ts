@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { CatalogueTable, explainFlag, FLAG_CODES, type PartRecord } from './rank';
+import { CatalogueTable, explainFlag, FLAG_CODES, orderByLeakage, type PartRecord } from './rank';
+import { JUNCTION_KINDS } from './names';
+import { mulberry32 } from '../random';
 import { ModelTable } from './model-table';
 import { createModel, type JunctionModelInput } from './model';
 import { diodeCurrent, forwardVoltage } from './shockley';
@@ -63,6 +65,24 @@ describe('rank core', () => {
 		expect(row.flags).toContain('forward-drop-over-limit');
 	});
 
+	it('takes the worst forward drop from whichever end is higher: the hot end for a crafted N = 2 wide-gap part', () => {
+		// V(I) = N·Vt·ln(I/IS(T) + 1) + I·RS with IS(T) = IS·(T/Tnom)^(XTI/N)·exp((T/Tnom − 1)·EG/(N·Vt)):
+		// dV/dT > 0 when N·(k/q)·ln(I/IS) exceeds EG/Tnom + XTI·k/q, as here (IS 1e-20 A, N 2, EG 1.9 eV).
+		const samples = [1, 1.3, 0.8].map((f) => createModel({ IS: 1e-20 * f, N: 2, RS: 5, EG: 1.9 }, 'wide-gap'));
+		const rec: PartRecord = { ...part('led', 1e-20), kind: 'led', samples };
+		const table = new CatalogueTable([rec]);
+		const op = { biasV: -1, temperatureRangeC: [-20, 80] as [number, number], clampCurrentA: 1e-3, maxForwardDropV: 2.04 };
+		const [row] = table.rows(table.rank(op), op);
+		const d = row.forwardDropV as { hot: number; cold: number; worst: number };
+		expect(d.hot).toBeGreaterThan(d.cold);
+		// Largest sample (smallest IS, 0.8e-20 A) at the hot end.
+		expectRelClose(d.worst, forwardVoltage(samples[2], 1e-3, 80), 1e-12);
+		// The limit lies between the ends, so only the hot end can raise the flag.
+		expect(forwardVoltage(samples[2], 1e-3, -20)).toBeLessThan(2.04);
+		expect(d.worst).toBeGreaterThan(2.04);
+		expect(row.flags).toContain('forward-drop-over-limit');
+	});
+
 	it('gives capacitance at the bias when CJO is known', () => {
 		const table = new CatalogueTable([part('c', 1e-14, {}, { CJO: 2e-12, VJ: 0.7, M: 0.4 })]);
 		const op = { biasV: -5, temperatureC: 27 };
@@ -112,7 +132,81 @@ describe('rank core', () => {
 		expect(() => new CatalogueTable([{ ...part('e', 1e-15), samples: [] }])).toThrow(RangeError);
 	});
 
+	it('uses the database kind names', () => {
+		const table = new CatalogueTable(JUNCTION_KINDS.map((kind, k) => part(`k${k}`, 1e-15 * (k + 1), { kind })));
+		const op = { biasV: -5, temperatureC: 25 };
+		expect(table.rows(table.rank(op), op, 0, 10).map((r) => r.kind)).toEqual([...JUNCTION_KINDS]);
+	});
+
+	it('with a limit lists the same first parts as the full order, and counts all', () => {
+		const r = mulberry32(5);
+		// Twin parts (identical models) tie exactly and must stay in index order.
+		const recs: PartRecord[] = [];
+		for (let k = 0; k < 60; k++) recs.push(part(`p${k}`, 10 ** (-16 + 3 * r())));
+		for (let k = 0; k < 20; k++) recs.push({ ...recs[k * 3], id: `twin${k}` });
+		const table = new CatalogueTable(recs);
+		const op = { biasV: -5, temperatureC: 60 };
+		const full = table.rank(op);
+		expect(full.ranked).toBe(80);
+		for (const limit of [0, 1, 7, 79, 80, 500]) {
+			const cut = table.rank(op, undefined, { limit });
+			expect(cut.ranked).toBe(80);
+			expect(Array.from(cut.order)).toEqual(Array.from(full.order.subarray(0, limit)));
+		}
+		expect(() => table.rank(op, undefined, { limit: -1 })).toThrow(RangeError);
+	});
+
+	it('orders and counts only the parts an include mask lets through', () => {
+		const table = new CatalogueTable([part('a', 1e-13), part('b', 1e-15, { ratings: { reverseV: 3 } }), part('c', 1e-14), part('d', 1e-16)]);
+		const op = { biasV: -5, temperatureC: 25 };
+		const res = table.rank(op, undefined, { include: Uint8Array.of(1, 1, 0, 1), limit: 1 });
+		expect(Array.from(res.order)).toEqual([3]);
+		expect(res.ranked).toBe(2);
+		expect(Array.from(res.excluded)).toEqual([1]);
+		expect(Array.from(table.rank(op, undefined, { include: Uint8Array.of(1, 0, 1, 0) }).excluded)).toEqual([]);
+		expect(() => table.rank(op, undefined, { include: new Uint8Array(3) })).toThrow(RangeError);
+	});
+
 	it('every flag has an explanation', () => {
 		for (const c of FLAG_CODES) expect(explainFlag(c)).toMatch(/\w/);
+	});
+});
+
+describe('ordering by leakage', () => {
+	// The reference: the comparator sort the ranking used before (worst, then typical, then index).
+	const reference = (idx: number[], worst: Float64Array, typical: Float64Array) =>
+		[...idx].sort((a, b) => worst[a] - worst[b] || typical[a] - typical[b] || a - b);
+
+	it('equals the comparator sort, with and without a limit, on values that tie or differ by one ulp', () => {
+		const r = mulberry32(17);
+		for (let trial = 0; trial < 40; trial++) {
+			const n = 1 + Math.floor(r() * 400);
+			const worst = new Float64Array(n);
+			const typical = new Float64Array(n);
+			const pool = Array.from({ length: 1 + Math.floor(r() * 8) }, () => 10 ** (-20 + 15 * r()));
+			for (let i = 0; i < n; i++) {
+				const u = r();
+				const base = pool[Math.floor(r() * pool.length)];
+				// Exact ties, neighbours a few ulps apart (same truncated key), zeros and spread-out values.
+				worst[i] = u < 0.3 ? base : u < 0.6 ? base * (1 + Math.floor(r() * 4) * Number.EPSILON) : u < 0.65 ? 0 : 10 ** (-20 + 15 * r());
+				typical[i] = r() < 0.5 ? worst[i] / 2 : worst[i] * r();
+			}
+			// Every other part, to check that positions (not indices) are packed.
+			const idx = Array.from({ length: n }, (_, i) => i).filter((i) => i % 2 === 0 || r() < 0.5);
+			const want = reference(idx, worst, typical);
+			for (const limit of [Infinity, 0, 1, 2, Math.floor(idx.length / 2), idx.length - 1, idx.length]) {
+				const got = Array.from(orderByLeakage(Int32Array.from(idx), worst, typical, limit));
+				expect(got).toEqual(want.slice(0, Math.min(limit, idx.length)));
+			}
+		}
+	});
+
+	it('puts infinite and NaN leakage last (NaN after Infinity), ties by typical then index', () => {
+		const worst = Float64Array.of(NaN, Infinity, 1e-12, Infinity, Number.MAX_VALUE, NaN, 0);
+		const typical = Float64Array.of(1, 2, 1e-13, 1, 5, 0, 0);
+		const idx = Int32Array.of(0, 1, 2, 3, 4, 5, 6);
+		const want = [6, 2, 4, 3, 1, 5, 0];
+		expect(Array.from(orderByLeakage(idx, worst, typical))).toEqual(want);
+		for (let limit = 0; limit <= 7; limit++) expect(Array.from(orderByLeakage(idx, worst, typical, limit))).toEqual(want.slice(0, limit));
 	});
 });

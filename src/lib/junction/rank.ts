@@ -7,15 +7,20 @@
  * Definitions:
  *  - leakage = |I(biasV)| at the hot end of the temperature range; typical = median over
  *    samples, worst = largest sample (the sort key, lowest first);
- *  - forward drop at clampCurrentA at the hot and cold ends; worst = largest over samples
- *    at the cold end (junction voltage rises as temperature falls);
+ *  - forward drop at clampCurrentA at the hot and cold ends (median over samples each);
+ *    worst = largest over samples and both ends. The cold end is usually higher (the
+ *    junction voltage falls with temperature), but a model with a large N and little
+ *    temperature dependence of IS (wide-gap, N ≈ 2) can have the hot end higher;
  *  - capacitance at the bias (median over samples at the mid temperature) when CJO is known.
+ * Order: worst-case leakage ascending, ties by typical leakage, then by part index (the
+ * order of the records given, which the server keeps by part id).
  */
 import { SI_2019, type PhysicalConstants } from './constants';
 import type { JunctionModel } from './model';
 import { ModelTable } from './model-table';
+import type { JunctionKind } from './names';
 
-export type JunctionKind = 'diode' | 'bjt-be' | 'diode-connected-bjt' | 'jfet-gate' | 'led' | 'schottky';
+export type { JunctionKind };
 
 /** A catalogue part as the server stores it. */
 export interface PartRecord {
@@ -108,11 +113,27 @@ export interface RankedPart {
 	flags: FlagCode[];
 }
 
+/** Options of `CatalogueTable.rank`. */
+export interface RankOptions {
+	/**
+	 * Only the best `limit` parts are put in `order` (a partial selection, cheaper than
+	 * ordering every part); the others are still evaluated and counted in `ranked`.
+	 */
+	limit?: number;
+	/**
+	 * Mask by part index: only parts with a non-zero entry are ordered, counted or listed
+	 * as excluded (e.g. the catalogue's kind and text filters). Length must be the table size.
+	 */
+	include?: Uint8Array;
+}
+
 /** Columnar ranking result; `rows()` turns a page of it into objects. */
 export interface RankResult {
-	/** Part indices, best (lowest worst-case leakage) first; excluded parts are left out. */
+	/** Part indices, best (lowest worst-case leakage) first; excluded parts are left out. At most `limit` long. */
 	order: Int32Array;
-	/** Parts excluded by the reverse rating. */
+	/** How many parts the full order holds (≥ order.length when a limit cut it). */
+	ranked: number;
+	/** Parts excluded by the reverse rating (among the included ones). */
 	excluded: Int32Array;
 	typicalA: Float64Array;
 	worstA: Float64Array;
@@ -194,7 +215,7 @@ export class CatalogueTable {
 			all.push(...p.samples);
 			let f = 0;
 			if (!p.measured.reverseMeasured) f |= bit('reverse-not-measured');
-			if (p.kind === 'schottky' || p.samples.some((s) => s.material === 'schottky')) f |= bit('metal-semiconductor');
+			if (p.kind === 'schottky' || p.samples.some((s) => s.material === 'metal-semiconductor')) f |= bit('metal-semiconductor');
 			if (p.transparentPackage || p.kind === 'led') f |= bit('light-sensitive');
 			if ((p.fitRmsResidualV ?? 0) > POOR_FIT_RMS_V) f |= bit('poor-fit');
 			if (p.samples.length < 3) f |= bit('few-samples');
@@ -237,14 +258,18 @@ export class CatalogueTable {
 	}
 
 	/**
-	 * Rank all parts for an operating point (definitions in the file header).
-	 * @throws RangeError for an invalid operating point.
+	 * Rank all parts for an operating point (definitions and order in the file header).
+	 * @throws RangeError for an invalid operating point or options.
 	 */
-	rank(op: OperatingPoint, constants: PhysicalConstants = SI_2019): RankResult {
+	rank(op: OperatingPoint, constants: PhysicalConstants = SI_2019, options: RankOptions = {}): RankResult {
 		const [cold, hot] = temperatureEnds(op);
 		if (!Number.isFinite(op.biasV)) throw new RangeError(`bias must be finite, got ${op.biasV}`);
 		const margin = op.reverseMarginV ?? 0;
 		const n = this.parts.length;
+		const include = options.include;
+		if (include && include.length !== n) throw new RangeError(`include mask has ${include.length} entries for ${n} parts`);
+		const limit = options.limit ?? Infinity;
+		if (!(limit >= 0)) throw new RangeError(`limit must be a non-negative number, got ${options.limit}`);
 		const hotI = this.models.currents(op.biasV, hot, this.scratchHot, constants, op.sourceResistanceOhm ?? 0);
 		const typicalA = new Float64Array(n);
 		const worstA = new Float64Array(n);
@@ -277,13 +302,14 @@ export class CatalogueTable {
 			typicalA[p] = typical;
 			worstA[p] = worst;
 			let f = this.staticFlags[p];
-			if (typical < this.minMeasured[p] / 10) f |= bit('current-extrapolated');
-			if (this.farFromMeasured(p, cold) || this.farFromMeasured(p, hot)) f |= bit('temperature-extrapolated');
+			if (typical < this.minMeasured[p] / 10) f |= BIT_CURRENT_EXTRAPOLATED;
+			if (this.farFromMeasured(p, cold) || this.farFromMeasured(p, hot)) f |= BIT_TEMPERATURE_EXTRAPOLATED;
 			if (hotV && coldV) {
 				let h = 0;
 				let cw = 0;
 				for (let k = 0; k < c; k++) {
 					sort[k] = hotV[s0 + k];
+					if (hotV[s0 + k] > cw) cw = hotV[s0 + k];
 					if (coldV[s0 + k] > cw) cw = coldV[s0 + k];
 				}
 				insertionSortPrefix(sort, c);
@@ -293,22 +319,32 @@ export class CatalogueTable {
 				dropHotV[p] = h;
 				dropColdV[p] = c % 2 ? sort[c >> 1] : 0.5 * (sort[(c >> 1) - 1] + sort[c >> 1]);
 				dropWorstV[p] = cw;
-				if (op.maxForwardDropV !== undefined && cw > op.maxForwardDropV) f |= bit('forward-drop-over-limit');
+				if (op.maxForwardDropV !== undefined && cw > op.maxForwardDropV) f |= BIT_FORWARD_DROP_OVER_LIMIT;
 			}
 			flags[p] = f;
 			const over = op.biasV < 0 && -op.biasV > this.ratedReverse[p] - margin;
-			if (over) {
-				flags[p] |= bit('over-reverse-rating');
-				if (!op.includeOverRating) {
-					excluded.push(p);
-					continue;
-				}
+			if (over) flags[p] |= BIT_OVER_REVERSE_RATING;
+			if (include && include[p] === 0) continue;
+			if (over && !op.includeOverRating) {
+				excluded.push(p);
+				continue;
 			}
 			keep[kept++] = p;
 		}
-		const order = keep.slice(0, kept);
-		order.sort((a, b) => worstA[a] - worstA[b] || typicalA[a] - typicalA[b] || a - b);
-		return { order, excluded: Int32Array.from(excluded), typicalA, worstA, dropHotV, dropColdV, dropWorstV, flags, hotC: hot, coldC: cold };
+		const order = orderByLeakage(keep.subarray(0, kept), worstA, typicalA, limit);
+		return {
+			order,
+			ranked: kept,
+			excluded: Int32Array.from(excluded),
+			typicalA,
+			worstA,
+			dropHotV,
+			dropColdV,
+			dropWorstV,
+			flags,
+			hotC: hot,
+			coldC: cold
+		};
 	}
 
 	/**
@@ -353,9 +389,118 @@ export class CatalogueTable {
 	}
 }
 
+const LOW_WORD = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 0 : 1;
+
+/** Numeric order with NaN after every number (the sort key order of `orderByLeakage`). */
+function compareNumbers(x: number, y: number): number {
+	if (x < y) return -1;
+	if (x > y) return 1;
+	if (x === y) return 0;
+	return Number.isNaN(x) ? (Number.isNaN(y) ? 0 : 1) : -1;
+}
+
+/**
+ * Order parts by worst leakage ascending, then typical leakage ascending, then part index
+ * (NaN after every number), returning at most `limit` of them.
+ *
+ * Method: each part's worst leakage (≥ 0, so its IEEE-754 bit pattern orders like its
+ * value) has the low ⌈log₂ m⌉ mantissa bits replaced by its position in `parts`; these
+ * packed doubles sort natively (or, with a limit, are selected by Hoare's FIND, C. A. R.
+ * Hoare, Comm. ACM 4 (1961) 321, then sorted). Truncating the low bits keeps the order
+ * between different truncated values, so only runs of equal truncated value can be out
+ * of the exact order; each such run is re-sorted with the exact comparison. With a limit,
+ * the run straddling the cut is taken whole before cutting.
+ * @param parts part indices in ascending order
+ */
+export function orderByLeakage(parts: Int32Array, worst: Float64Array, typical: Float64Array, limit = Infinity): Int32Array {
+	const m = parts.length;
+	const take = Math.min(m, Math.max(0, Math.floor(limit)));
+	if (take === 0) return new Int32Array(0);
+	const bits = Math.max(1, Math.ceil(Math.log2(m)));
+	if (bits > 31) throw new RangeError(`too many parts to order (${m})`);
+	const keys = new Float64Array(m);
+	const words = new Uint32Array(keys.buffer);
+	for (let j = 0; j < m; j++) {
+		const w = worst[parts[j]];
+		// NaN and ±Infinity would not survive packing; they join the largest finite value's run.
+		keys[j] = w <= Number.MAX_VALUE ? w : Number.MAX_VALUE;
+		const at = 2 * j + LOW_WORD;
+		words[at] = (((words[at] >>> bits) << bits) | j) >>> 0;
+	}
+	let sorted: Float64Array;
+	if (take < m) {
+		selectSmallest(keys, take - 1);
+		const top = keys[take - 1];
+		const topWords = new Uint32Array(Float64Array.of(top).buffer);
+		const hi = topWords[1 - LOW_WORD];
+		const lo = topWords[LOW_WORD] >>> bits;
+		let extra = 0;
+		for (let j = take; j < m; j++) if (words[2 * j + 1 - LOW_WORD] === hi && words[2 * j + LOW_WORD] >>> bits === lo) extra++;
+		sorted = new Float64Array(take + extra);
+		sorted.set(keys.subarray(0, take));
+		let e = take;
+		for (let j = take; j < m; j++)
+			if (words[2 * j + 1 - LOW_WORD] === hi && words[2 * j + LOW_WORD] >>> bits === lo) sorted[e++] = keys[j];
+	} else sorted = keys;
+	sorted.sort();
+	const sw = new Uint32Array(sorted.buffer, sorted.byteOffset, 2 * sorted.length);
+	const mask = 2 ** bits - 1;
+	const out = new Int32Array(sorted.length);
+	for (let i = 0; i < sorted.length; i++) out[i] = parts[sw[2 * i + LOW_WORD] & mask];
+	// Re-sort runs of equal truncated worst leakage exactly.
+	const cmp = (a: number, b: number) => compareNumbers(worst[a], worst[b]) || compareNumbers(typical[a], typical[b]) || a - b;
+	for (let i = 0; i < sorted.length; ) {
+		const hi = sw[2 * i + 1 - LOW_WORD];
+		const lo = sw[2 * i + LOW_WORD] >>> bits;
+		let e = i + 1;
+		while (e < sorted.length && sw[2 * e + 1 - LOW_WORD] === hi && sw[2 * e + LOW_WORD] >>> bits === lo) e++;
+		if (e - i > 1) out.subarray(i, e).sort(cmp);
+		i = e;
+	}
+	return out.length > take ? out.slice(0, take) : out;
+}
+
+/**
+ * Rearrange `a` (distinct values) so that a[k] holds the value of rank k (0-based) and
+ * every a[i] for i < k is smaller: Hoare's FIND (Comm. ACM 4 (1961) 321), in the form
+ * given by N. Wirth, Algorithms + Data Structures = Programs (1976), §2.3.4, with a
+ * median-of-three pivot.
+ */
+function selectSmallest(a: Float64Array, k: number): void {
+	let l = 0;
+	let r = a.length - 1;
+	while (l < r) {
+		const x0 = a[l];
+		const x1 = a[(l + r) >> 1];
+		const x2 = a[r];
+		const x = x0 < x1 ? (x1 < x2 ? x1 : x0 < x2 ? x2 : x0) : x0 < x2 ? x0 : x1 < x2 ? x2 : x1;
+		let i = l;
+		let j = r;
+		do {
+			while (a[i] < x) i++;
+			while (x < a[j]) j--;
+			if (i <= j) {
+				const t = a[i];
+				a[i] = a[j];
+				a[j] = t;
+				i++;
+				j--;
+			}
+		} while (i <= j);
+		if (j < k) l = i;
+		if (k < i) r = j;
+	}
+}
+
 function bit(code: FlagCode): number {
 	return 1 << FLAG_CODES.indexOf(code);
 }
+
+// Bits set inside the per-part loop of `rank`, looked up once.
+const BIT_CURRENT_EXTRAPOLATED = bit('current-extrapolated');
+const BIT_TEMPERATURE_EXTRAPOLATED = bit('temperature-extrapolated');
+const BIT_FORWARD_DROP_OVER_LIMIT = bit('forward-drop-over-limit');
+const BIT_OVER_REVERSE_RATING = bit('over-reverse-rating');
 
 /** Decode a flag bit set into codes, in FLAG_CODES order. */
 export function flagsFromBits(bits: number): FlagCode[] {

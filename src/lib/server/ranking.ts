@@ -4,11 +4,12 @@
  * in-memory model cache; this module adds the catalogue's filters, the leakage budget,
  * capacitance limit, error voltage across the source resistance and reverse margin.
  *
- * Worst case: leakage at the hot end of the range (largest sample), forward drop at the
- * cold end (largest sample). The bias is across the junction itself, so the source
- * resistance is not put in series: it only turns leakage into an error voltage.
+ * Worst case: leakage at the hot end of the range (largest sample), forward drop the
+ * larger of the hot and cold ends (largest sample). Material defaults (EG, XTI) are the
+ * engine's. The bias is across the junction itself, so the source resistance is not put
+ * in series: it only turns leakage into an error voltage.
  */
-import { CatalogueTable, type OperatingPoint, type RankResult, type RankedPart } from '$lib/junction';
+import { CatalogueTable, SI_2019, type OperatingPoint, type RankResult, type RankedPart } from '$lib/junction';
 import type { RankFlag, RankItem, RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
 import { modelCache, type CacheSnapshot, type CachedPart, type ModelCache } from './model-cache';
 
@@ -81,21 +82,18 @@ export function rankSnapshot(
 	withModels = 0
 ): RankResponse {
 	const eop = engineOperatingPoint(op);
-	const result: RankResult = snap.table.rank(eop);
-	let order = result.order;
-	let evaluated = snap.parts.length;
-	let excludedOverRating = result.excluded.length;
+	let include: Uint8Array | undefined;
 	if (hasFilters(op)) {
-		const keep = new Int32Array(order.length);
-		let n = 0;
-		for (let r = 0; r < order.length; r++) if (matchesFilters(snap.parts[order[r]], op)) keep[n++] = order[r];
-		order = keep.slice(0, n);
-		excludedOverRating = 0;
-		for (let r = 0; r < result.excluded.length; r++) if (matchesFilters(snap.parts[result.excluded[r]], op)) excludedOverRating++;
-		evaluated = n + excludedOverRating;
+		include = new Uint8Array(snap.parts.length);
+		for (let p = 0; p < snap.parts.length; p++) if (matchesFilters(snap.parts[p], op)) include[p] = 1;
 	}
+	// Only the first `limit` parts are listed, so the engine selects those instead of ordering all.
+	const result: RankResult = snap.table.rank(eop, SI_2019, { limit, ...(include ? { include } : {}) });
+	const order = result.order;
+	const excludedOverRating = result.excluded.length;
+	const evaluated = result.ranked + excludedOverRating;
 	const budget = leakageBudget(op);
-	const rows = snap.table.rows({ ...result, order }, eop, 0, limit);
+	const rows = snap.table.rows(result, eop, 0, limit);
 	const items: RankItem[] = rows.map((row, i) => {
 		const part = snap.parts[order[i]];
 		const item: RankItem = { rank: i + 1, ...toItem(part, row, op, budget) };

@@ -10,26 +10,14 @@ import { createModel, currentAtBias, saturationCurrentAt, scaleModel, voltageAtC
 import { engineMaterial } from '../../src/lib/catalogue/models';
 import { DEFAULT_MATERIAL } from '../../src/lib/catalogue/vocabulary';
 import { DEMO_PARTS, type DemoPart } from './parts';
+import { gaussian, mulberry32 } from '../../src/lib/random';
 
 export type ManifestEntry = { file: string; part: string; sample: string; lot: string; dateCode: string; temperatureC: number };
 
 const DIR = new URL('./files/', import.meta.url).pathname;
 
-function mulberry32(seed: number) {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
 const rand = mulberry32(20240611);
-function gauss(): number {
-	const u = Math.max(rand(), 1e-12);
-	return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rand());
-}
+const gauss = gaussian(rand);
 
 const RANGES = [
 	{ label: '10nA', top: 1e-8 },

@@ -179,7 +179,9 @@ describe('interrupted uploads', () => {
 		const before = await counts();
 		const boundary = 'cut-' + unique();
 		const head = `--${boundary}\r\nContent-Disposition: form-data; name="sample"\r\n\r\ncut1\r\n--${boundary}\r\nContent-Disposition: form-data; name="temperatureC"\r\n\r\n25\r\n--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="cut.csv"\r\nContent-Type: text/csv\r\n\r\nV,I\n`;
-		const rows = Array.from({ length: 2000 }, (_, k) => `${(0.3 + k * 0.0002).toFixed(4)},${(1e-9 * Math.exp(k / 200)).toExponential(4)}\n`).join('');
+		// A random scale makes the file new to the catalogue on every run (uploads are unique by SHA-256).
+		const scale = 1 + Math.random() * 1e-3;
+		const rows = Array.from({ length: 2000 }, (_, k) => `${(0.3 + k * 0.0002).toFixed(4)},${(1e-9 * scale * Math.exp(k / 200)).toExponential(6)}\n`).join('');
 		const full = Buffer.from(head + rows + `\r\n--${boundary}--\r\n`);
 		const url = new URL(`/api/v1/junctions/${partId}/runs`, APP_URL);
 		await new Promise<void>((resolve) => {

@@ -1,7 +1,7 @@
 // Every route × every caller: anonymous → 401 or a sign-in redirect, a role without the
 // permission → 403, an allowed role → neither. The route tree is read from src/routes so a
 // new route that nobody lists here fails this suite instead of shipping unguarded.
-import { readdirSync, statSync } from 'node:fs';
+import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { describe, expect, test } from 'vitest';
 import { ROLES, type Role } from '$lib/permissions';
@@ -27,6 +27,22 @@ function routeTree(dir = 'src/routes'): string[] {
 	return [...new Set(found)];
 }
 
+/** "route action" for every named action of every +page.server.ts ('default' when unnamed). */
+function formActions(dir = 'src/routes'): string[] {
+	const found: string[] = [];
+	for (const entry of readdirSync(dir)) {
+		const full = join(dir, entry);
+		if (statSync(full).isDirectory()) found.push(...formActions(full));
+		else if (entry === '+page.server.ts') {
+			const block = readFileSync(full, 'utf8').match(/export const actions[^=]*=\s*\{([\s\S]*?)\n\};/);
+			if (!block) continue;
+			const id = '/' + relative('src/routes', dir).split('\\').join('/');
+			for (const m of block[1].matchAll(/^\t(\w+): /gm)) found.push(`${id === '/' ? '/' : id.replace(/\/$/, '')} ${m[1]}`);
+		}
+	}
+	return found;
+}
+
 const callers: Caller[] = ['anonymous', 'no-role', ...ROLES];
 
 function allowed(c: RouteCase, who: Caller): boolean {
@@ -40,6 +56,12 @@ describe('role matrix', () => {
 	test('every route in src/routes is listed in the matrix or known to be public', () => {
 		const listed = new Set(cases.map((c) => c.route));
 		const missing = routeTree().filter((r) => !listed.has(r) && !publicRoutes.some((p) => r === p || r.startsWith(p + '/')));
+		expect(missing).toEqual([]);
+	});
+
+	test('every form action in src/routes is listed in the matrix', () => {
+		const listed = new Set(cases.filter((c) => c.kind === 'action').map((c) => `${c.route} ${c.path.split('?/')[1] ?? 'default'}`));
+		const missing = formActions().filter((a) => !listed.has(a) && !publicRoutes.some((p) => a.startsWith(p + ' ')));
 		expect(missing).toEqual([]);
 	});
 

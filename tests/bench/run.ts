@@ -7,9 +7,11 @@ import { runBrowserBenchmarks } from './browser.bench';
 import { runJunctionBenchmarks } from './junction.bench';
 import { runLoadBenchmarks } from './load';
 import { runRankingBenchmarks } from './ranking.bench';
+import { runSearchBenchmarks } from './search.bench';
 import { writeReport } from './results';
 
 await runJunctionBenchmarks();
+await runSearchBenchmarks();
 if (process.env.DATABASE_URL) {
 	await runRankingBenchmarks();
 	await runBrowserBenchmarks();

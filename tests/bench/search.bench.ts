@@ -1,6 +1,7 @@
 /**
- * catalogue-search-vs-frame: one keystroke's typo-tolerant search (fuse.js, the catalogue
- * page's own index and filters) over 10k parts, against one 60 Hz frame (16.7 ms).
+ * catalogue-search-vs-frame: one keystroke's typo-tolerant search (the catalogue page's own
+ * index and search: literal hits plus fuse.js over gram-index candidates) over 10k parts,
+ * against one 60 Hz frame (16.7 ms).
  * Ratio = median time per keystroke / frame; target ≤ 1 ("answers within a frame").
  */
 import { buildIndex, search, type Filters } from '../../src/routes/catalogue/search';
@@ -49,12 +50,13 @@ export async function runSearchBenchmarks(): Promise<void> {
 	}
 	times.sort((a, b) => a - b);
 	const median = times[times.length >> 1];
+	const p95 = times[Math.floor(times.length * 0.95)];
 	const worst = times[times.length - 1];
 	record(
 		'catalogue-search-vs-frame',
 		median / FRAME_MS,
 		1,
-		`fuse.js over 10k parts: median ${median.toFixed(2)} ms, slowest ${worst.toFixed(2)} ms per keystroke (typing "${typed}"), against a ${FRAME_MS.toFixed(1)} ms frame; index built once in ${buildMs.toFixed(0)} ms`
+		`catalogue search over 10k parts: median ${median.toFixed(2)} ms, 95th percentile ${p95.toFixed(2)} ms, slowest ${worst.toFixed(2)} ms per keystroke (typing "${typed}"), against a ${FRAME_MS.toFixed(1)} ms frame; index built once in ${buildMs.toFixed(0)} ms`
 	);
-	console.log(`catalogue-search-vs-frame: ${(median / FRAME_MS).toFixed(2)} (median ${median.toFixed(2)} ms, worst ${worst.toFixed(2)} ms)`);
+	console.log(`catalogue-search-vs-frame: ${(median / FRAME_MS).toFixed(2)} (median ${median.toFixed(2)} ms, p95 ${p95.toFixed(2)} ms, worst ${worst.toFixed(2)} ms)`);
 }

@@ -1,7 +1,16 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { createModel, type JunctionModel } from './model';
-import { diodeCurrent, forwardVoltage, zeroBiasConductance, voltageAtCurrent } from './shockley';
+import {
+	diodeCurrent,
+	forwardVoltage,
+	zeroBiasConductance,
+	voltageAtCurrent,
+	shuntedJunctionVoltage,
+	junctionCurrent,
+	junctionCurrentAndSlope
+} from './shockley';
+import { solveIncreasing } from './solve';
 import { scaleModel, saturationCurrentAt, shuntResistanceAt } from './temperature';
 import { thermalVoltage, celsiusToKelvin } from './constants';
 import { junctionCapacitance } from './capacitance';
@@ -132,6 +141,38 @@ describe('DC equations', () => {
 		expectRelClose(forwardVoltage(m, 1e-3, 27), a * Math.log(1e-3 / 1e-14 + 1) + 3e-3, 1e-14);
 		expectRelClose(zeroBiasConductance(createModel({ IS: 1e-14, N: 1 }), 27), 1e-14 / thermalVoltage(300.15), 1e-14);
 		expectRelClose(zeroBiasConductance(createModel({ IS: 1e-14, N: 1, RSH: 1e9 }), 27), 1e-14 / thermalVoltage(300.15) + 1e-9, 1e-14);
+	});
+
+	it('shunt-corrected forward voltage equals the bracketed Newton solve to 1e-13 (property)', () => {
+		// Reference: the general solver's safeguarded Newton on Ij(Vd) = I, bracket [0, N·Vt·ln(1 + I/IS)]
+		// widened by 1e-9 relative so rounding cannot leave the no-shunt end without a sign change.
+		const bracketed = (s: ReturnType<typeof scaleModel>, I: number) =>
+			solveIncreasing(
+				(vd, out) => {
+					junctionCurrentAndSlope(s, vd, out);
+					out[0] -= I;
+				},
+				0,
+				s.nvt * Math.log1p(I / s.IS) * (1 + 1e-9)
+			) +
+			I * s.RS;
+		fc.assert(
+			fc.property(
+				modelArb,
+				fc.double({ min: -9, max: -1, noNaN: true }),
+				fc.double({ min: -40, max: 150, noNaN: true }),
+				(p, logI, tC) => {
+					const s = scaleModel(createModel(p), tC);
+					const I = 10 ** logI;
+					const v = voltageAtCurrent(s, I);
+					expect(Math.abs(v - bracketed(s, I))).toBeLessThanOrEqual(1e-13 * Math.max(1, Math.abs(v)));
+					// And the junction really carries I at that voltage (Ij(Vd) = I to rounding).
+					const vd = shuntedJunctionVoltage(I, s.IS, s.nvt, s.GSH);
+					expectRelClose(junctionCurrent(s, vd), I, 1e-9);
+				}
+			),
+			{ numRuns: 300, seed: 11 }
+		);
 	});
 
 	it('throws on out-of-domain input', () => {

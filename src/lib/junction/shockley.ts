@@ -140,14 +140,71 @@ export function currentAtBias(s: ScaledJunction, biasV: number): number {
 }
 
 /**
+ * Junction voltage Vd [V] at which a Shockley junction with a shunt carries a forward
+ * current I [A]: the root of IS·(exp(Vd/(N·Vt)) − 1) + G·Vd = I, G = 1/RSH [S], I > 0.
+ * Method in `shuntCorrectedVoltage`, started from the no-shunt root N·Vt·ln(1 + I/IS).
+ * Source: the Shockley equation with a parallel conductance (see file header).
+ * @param nvt N·Vt [V]
+ */
+export function shuntedJunctionVoltage(currentA: number, IS: number, nvt: number, G: number): number {
+	return shuntCorrectedVoltage(currentA, IS, nvt, G, nvt * Math.log1p(currentA / IS));
+}
+
+/**
+ * The shunted junction's voltage [V] (see `shuntedJunctionVoltage`) from the no-shunt root
+ * vd0 = N·Vt·ln(1 + I/IS) [V]. Vd solves
+ *   h(Vd) = Vd − N·Vt·ln(1 + (I − G·Vd)/IS) = 0,
+ * which is increasing and convex on Vd < (I + IS)/G, so Newton's method started right of
+ * the root (at min(vd0, I/G), where h ≥ 0) descends to it monotonically without
+ * overshooting. At vd0, h = −N·Vt·ln(1 − u), u = G·vd0/(I + IS), exactly and without
+ * cancellation; for u < 1e-4 the logarithm is −u − u²/2 − u³/3 to within u⁴/4 < 2.5e-17.
+ * After a step s from x, the error is at most h''(x)/2·(s·h'(x))² (convexity; h'' falls
+ * towards the root and h' ≥ 1), with h' = 1 + N·Vt·G/r, h'' = N·Vt·G²/r², r = I + IS − G·x;
+ * the loop stops when that bound is below rounding, usually after one step (for 1 mA
+ * through 1 MΩ the first step leaves ~1e-17 V). Exact to rounding: the same root the
+ * general solver brackets. Newton on a convex function: e.g. Dahlquist & Björck,
+ * Numerical Methods (1974), §6.3.
+ * @param nvt N·Vt [V]
+ */
+export function shuntCorrectedVoltage(currentA: number, IS: number, nvt: number, G: number, vd0: number): number {
+	if (G === 0) return vd0;
+	let x: number;
+	let h: number;
+	if (G * vd0 < currentA) {
+		x = vd0;
+		const u = (G * vd0) / (currentA + IS);
+		h = u < 1e-4 ? nvt * u * (1 + u * (0.5 + u / 3)) : -nvt * Math.log1p(-u);
+	} else {
+		// The shunt alone would carry more than I at vd0: start at I/G, where the junction carries nothing.
+		x = currentA / G;
+		h = x;
+	}
+	for (let k = 0; k < 100 && h > 0; k++) {
+		const r = IS + currentA - G * x;
+		const slope = 1 + (nvt * G) / r;
+		const step = h / slope;
+		const next = x - step;
+		if (!(next < x)) break;
+		x = next;
+		const ds = step * slope;
+		if (((nvt * G * G) / (2 * r * r)) * ds * ds <= 1.1e-16 * x) break;
+		h = x - nvt * Math.log1p((currentA - G * x) / IS);
+	}
+	return x;
+}
+
+/**
  * Terminal voltage [V] that drives a given current I [A] (positive = forward):
- * V = Vd + I·RS with Ij(Vd) = I. Without shunt, ISR or BV this is the closed form
- * V = N·Vt·ln(1 + I/IS) + I·RS; otherwise a safeguarded Newton solve on Vd.
+ * V = Vd + I·RS with Ij(Vd) = I. Without ISR, a forward current has the closed form
+ * V = N·Vt·ln(1 + I/IS) + I·RS, corrected exactly for a shunt by `shuntedJunctionVoltage`
+ * (breakdown acts only below −BV, so it never carries forward current); otherwise a
+ * safeguarded Newton solve on Vd.
  * @throws RangeError when the current cannot be reached (e.g. I ≤ −IS with no shunt or breakdown).
  */
 export function voltageAtCurrent(s: ScaledJunction, currentA: number): number {
 	checkFinite('current', currentA);
 	if (currentA === 0) return 0;
+	if (s.ISR === 0 && currentA > 0) return shuntedJunctionVoltage(currentA, s.IS, s.nvt, s.GSH) + currentA * s.RS;
 	if (s.ISR === 0 && !s.hasBV && s.GSH === 0) {
 		if (currentA <= -s.IS)
 			throw new RangeError(`a reverse current of ${currentA} A is beyond the saturation current ${s.IS} A`);
@@ -176,7 +233,7 @@ export function voltageAtCurrent(s: ScaledJunction, currentA: number): number {
 
 /**
  * Forward voltage [V] at a forward current I [A] and temperature [°C]:
- * V = N·Vt·ln(I/IS + 1) + I·RS (shunt/recombination: solved numerically).
+ * V = N·Vt·ln(I/IS + 1) + I·RS (shunt: exact correction; recombination: solved numerically).
  * @throws RangeError for non-positive current or invalid parameters.
  */
 export function forwardVoltage(

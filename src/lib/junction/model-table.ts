@@ -3,17 +3,50 @@
  * vectorised evaluation at one operating point, for ranking large catalogues.
  *
  * The loops here allocate nothing per model. Plain models (no ISR, no BV) use the
- * same closed-form equations as shockley.ts; when the series-resistance correction
- * is below double precision (RS·(IS/(N·Vt) + 1/RSH) < 1e-17, typical for reverse
- * bias) the current is evaluated directly, which is exact to rounding. Models with
- * recombination or breakdown terms fall back to the scalar solver.
+ * same closed-form equations as shockley.ts, with two shortcuts for reverse bias. Deep in
+ * reverse, where the junction voltage Vd = V − I·RS lies below −40·N·Vt, the exponential
+ * is below 4.3e-18 of IS, under double rounding, so I = (V/RSH − IS)/(1 + RS/RSH) exactly
+ * to rounding (the Lambert W form's B term alone). Otherwise, when
+ * ε = RS·(IS/(N·Vt) + 1/RSH) < 1e-9 (typical), the current is I₀·(1 − RS·Ij'(V)) with
+ * I₀ = Ij(V) the current without RS. That is one linearised step of I = Ij(V − I·RS); as
+ * Ij' ≤ IS/(N·Vt) + 1/RSH for V ≤ 0, its relative error is below 3ε² < 3e-18, under
+ * double rounding, so it is exact to rounding like the Lambert W form it replaces. A breakdown
+ * model biased above its knee (V ≥ −BVeff, so the junction never reaches the breakdown
+ * branch) is a plain model there. Forward voltages use the closed form with the exact
+ * shunt correction (`shuntedJunctionVoltage`) for every model without ISR. Only models
+ * with a recombination term, or biased into breakdown, fall back to the scalar solver.
+ *
+ * Temperature-scaled parameters (IS(T), 1/RSH(T), and the full scaled model where the
+ * solver or the capacitance needs it) are kept per temperature for the last
+ * SCALED_TEMPERATURES temperatures asked for, so repeated evaluations at the same
+ * temperatures skip the scaling. The table is immutable, so these never go stale; a
+ * catalogue refresh builds a new table and with it an empty cache.
  */
 import { SI_2019, celsiusToKelvin, type PhysicalConstants } from './constants';
 import type { JunctionModel } from './model';
 import { lambertW0Exp } from './lambert-w';
-import { scaleModel } from './temperature';
-import { solveBias, voltageAtCurrent } from './shockley';
+import { scaleModel, type ScaledJunction } from './temperature';
+import { shuntCorrectedVoltage, solveBias, voltageAtCurrent } from './shockley';
 import { depletionCapacitance } from './capacitance';
+
+/** How many temperatures' scaled parameters a table keeps (least recently used dropped). */
+export const SCALED_TEMPERATURES = 8;
+
+/** Every model's temperature-dependent parameters at one temperature. */
+interface ScaledColumns {
+	temperatureC: number;
+	constants: PhysicalConstants;
+	/** Thermal voltage k·T/q [V]. */
+	vt: number;
+	/** IS(T) [A]. */
+	IS: Float64Array;
+	/** ln IS(T) [ln A]. */
+	LNIS: Float64Array;
+	/** 1/RSH(T) [S], 0 = no shunt. */
+	GSH: Float64Array;
+	/** Full scaled models, built on first use (solver and capacitance only). */
+	full: (ScaledJunction | undefined)[];
+}
 
 export class ModelTable {
 	readonly length: number;
@@ -32,10 +65,13 @@ export class ModelTable {
 	/** ln(TNOM/K), precomputed because the ranking loop needs it for every model. */
 	readonly LNTNOM: Float64Array;
 	readonly CJO: Float64Array;
-	/** 1 when the model needs the general solver (ISR or BV present). */
+	/** 1 when the model has a recombination or breakdown term (ISR or BV present). */
 	readonly complex: Uint8Array;
+	/** 1 when the model has a recombination term (ISR > 0): forward voltage needs the solver. */
+	readonly hasISR: Uint8Array;
 	/** The original models, for the general solver and for reports. */
 	readonly models: readonly JunctionModel[];
+	private scaledCache = new Map<number, ScaledColumns>();
 
 	constructor(models: readonly JunctionModel[]) {
 		const n = models.length;
@@ -53,6 +89,7 @@ export class ModelTable {
 		this.LNTNOM = new Float64Array(n);
 		this.CJO = new Float64Array(n);
 		this.complex = new Uint8Array(n);
+		this.hasISR = new Uint8Array(n);
 		for (let j = 0; j < n; j++) {
 			const m = models[j];
 			this.IS[j] = m.IS;
@@ -66,8 +103,49 @@ export class ModelTable {
 			this.TNOMK[j] = celsiusToKelvin(m.TNOM);
 			this.LNTNOM[j] = Math.log(this.TNOMK[j]);
 			this.CJO[j] = m.CJO ?? 0;
-			this.complex[j] = (m.ISR !== undefined && m.ISR > 0) || m.BV !== undefined ? 1 : 0;
+			this.hasISR[j] = m.ISR !== undefined && m.ISR > 0 ? 1 : 0;
+			this.complex[j] = this.hasISR[j] === 1 || m.BV !== undefined ? 1 : 0;
 		}
+	}
+
+	/**
+	 * IS(T) = IS·(T/Tnom)^(XTI/N)·exp((T/Tnom − 1)·EG/(N·Vt)) [A] and 1/RSH(T) = f^((T − Tnom)/10 K)/RSH [S]
+	 * of every model at a temperature [°C] (temperature.ts; ngspice diotemp.c), kept for reuse.
+	 * @throws RangeError for a temperature at or below absolute zero.
+	 */
+	private scaled(temperatureC: number, constants: PhysicalConstants): ScaledColumns {
+		const cache = this.scaledCache;
+		const hit = cache.get(temperatureC);
+		if (hit && hit.constants === constants) {
+			// Most recently used last.
+			cache.delete(temperatureC);
+			cache.set(temperatureC, hit);
+			return hit;
+		}
+		const T = celsiusToKelvin(temperatureC);
+		const vt = (constants.k * T) / constants.q;
+		const lnT = Math.log(T);
+		const n = this.length;
+		const IS = new Float64Array(n);
+		const LNIS = new Float64Array(n);
+		const G = new Float64Array(n);
+		for (let j = 0; j < n; j++) {
+			const ratio = T / this.TNOMK[j];
+			const lnFactor = (this.XTI[j] * (lnT - this.LNTNOM[j]) + ((ratio - 1) * this.EG[j]) / vt) / this.N[j];
+			IS[j] = this.IS[j] * Math.exp(lnFactor);
+			LNIS[j] = Math.log(this.IS[j]) + lnFactor;
+			G[j] = this.GSH[j] === 0 ? 0 : this.GSH[j] * Math.exp(this.LNSF10[j] * (T - this.TNOMK[j]));
+		}
+		const cols: ScaledColumns = { temperatureC, constants, vt, IS, LNIS, GSH: G, full: new Array(n) };
+		cache.delete(temperatureC);
+		cache.set(temperatureC, cols);
+		if (cache.size > SCALED_TEMPERATURES) cache.delete(cache.keys().next().value as number);
+		return cols;
+	}
+
+	/** The full scaled model j at the columns' temperature (built once per temperature). */
+	private full(cols: ScaledColumns, j: number): ScaledJunction {
+		return (cols.full[j] ??= scaleModel(this.models[j], cols.temperatureC, cols.constants));
 	}
 
 	/**
@@ -87,28 +165,38 @@ export class ModelTable {
 		if (!Number.isFinite(biasV)) throw new RangeError(`bias must be finite, got ${biasV}`);
 		if (out.length < this.length) throw new RangeError('output array is shorter than the table');
 		if (!(extraSeriesOhm >= 0)) throw new RangeError('series resistance must be ≥ 0');
-		const T = celsiusToKelvin(temperatureC);
-		const vt = (constants.k * T) / constants.q;
-		const lnT = Math.log(T);
-		const { IS, N, RS, GSH, LNSF10, EG, XTI, TNOMK, LNTNOM, complex } = this;
+		const cols = this.scaled(temperatureC, constants);
+		const vt = cols.vt;
+		const { N, RS, complex } = this;
+		const IS = cols.IS;
+		const GSH = cols.GSH;
 		const V = biasV;
 		for (let j = 0; j < this.length; j++) {
 			if (complex[j] === 1) {
-				out[j] = this.general(j, V, temperatureC, constants, extraSeriesOhm);
-				continue;
+				const s = this.full(cols, j);
+				// Above the knee the junction voltage (between V and 0) never enters breakdown.
+				if (s.ISR !== 0 || V < -s.BVeff) {
+					out[j] = general(s, V, extraSeriesOhm);
+					continue;
+				}
 			}
-			const n = N[j];
-			const nvt = n * vt;
-			const ratio = T / TNOMK[j];
-			const is = IS[j] * Math.exp((XTI[j] * (lnT - LNTNOM[j]) + ((ratio - 1) * EG[j]) / vt) / n);
-			const g = GSH[j] === 0 ? 0 : GSH[j] * Math.exp(LNSF10[j] * (T - TNOMK[j]));
+			const is = IS[j];
+			const nvt = N[j] * vt;
+			const g = GSH[j];
 			const rs = RS[j] + extraSeriesOhm;
 			let i: number;
-			if (rs === 0 || (V < 0 && rs * (is / nvt + g) < 1e-17)) {
+			const d = 1 + rs * g;
+			const B = (V * g - is) / d;
+			if (V < 0 && V - B * rs < -40 * nvt) {
+				// Deep reverse (file header): exp(Vd/(N·Vt)) < 4.3e-18.
+				i = B;
+			} else if (rs === 0) {
 				i = is * Math.expm1(V / nvt) + V * g;
+			} else if (V < 0 && rs * (is / nvt + g) < 1e-9) {
+				// Linearised RS step (file header): relative error < 3e-18.
+				const em1 = Math.expm1(V / nvt);
+				i = (is * em1 + V * g) * (1 - rs * ((is * (em1 + 1)) / nvt + g));
 			} else {
-				const d = 1 + rs * g;
-				const B = (V * g - is) / d;
 				const w = lambertW0Exp(Math.log((is * rs) / (d * nvt)) + (V - B * rs) / nvt);
 				if (w > 1) i = B + (nvt * w) / rs;
 				else {
@@ -121,34 +209,35 @@ export class ModelTable {
 		return out;
 	}
 
-	private general(j: number, V: number, temperatureC: number, constants: PhysicalConstants, extraRs: number): number {
-		const s = scaleModel(this.models[j], temperatureC, constants);
-		if (extraRs > 0) s.RS += extraRs;
-		const i = solveBias(s, V).i;
-		return Number.isFinite(i) ? i : i > 0 ? Number.MAX_VALUE : -Number.MAX_VALUE;
-	}
-
 	/**
 	 * Terminal voltage [V] of every model at a forward current [A] and temperature [°C]:
-	 * V = N·Vt·ln(1 + I/IS(T)) + I·RS (general solver with shunt, ISR or BV), written into `out`.
+	 * V = N·Vt·ln(1 + I/IS(T)) + I·RS, with the exact shunt correction of
+	 * `shuntCorrectedVoltage` when there is a shunt, and the general solver for models
+	 * with a recombination term (ISR); written into `out`. ln(1 + I/IS) = ln I − ln IS +
+	 * ln(1 + x), x = IS(T)/I; when x < 1e-4 the last term is x − x²/2 + x³/3 to within
+	 * x⁴/4 < 2.5e-17, so with the kept ln IS(T) column the loop needs no logarithm.
 	 * @throws RangeError for a non-positive current or a short output array.
 	 */
 	forwardVoltages(currentA: number, temperatureC: number, out: Float64Array, constants: PhysicalConstants = SI_2019): Float64Array {
 		if (!(currentA > 0) || !Number.isFinite(currentA)) throw new RangeError(`forward current must be positive, got ${currentA}`);
 		if (out.length < this.length) throw new RangeError('output array is shorter than the table');
-		const T = celsiusToKelvin(temperatureC);
-		const vt = (constants.k * T) / constants.q;
-		const lnT = Math.log(T);
-		const { IS, N, RS, GSH, EG, XTI, TNOMK, LNTNOM, complex } = this;
+		const cols = this.scaled(temperatureC, constants);
+		const vt = cols.vt;
+		const { N, RS, hasISR } = this;
+		const { IS, LNIS, GSH } = cols;
+		const lnI = Math.log(currentA);
+		const invI = 1 / currentA;
 		for (let j = 0; j < this.length; j++) {
-			if (complex[j] === 1 || GSH[j] !== 0) {
-				out[j] = voltageAtCurrent(scaleModel(this.models[j], temperatureC, constants), currentA);
+			if (hasISR[j] === 1) {
+				out[j] = voltageAtCurrent(this.full(cols, j), currentA);
 				continue;
 			}
 			const nvt = N[j] * vt;
-			const ratio = T / TNOMK[j];
-			const is = IS[j] * Math.exp((XTI[j] * (lnT - LNTNOM[j]) + ((ratio - 1) * EG[j]) / vt) / N[j]);
-			out[j] = nvt * Math.log1p(currentA / is) + currentA * RS[j];
+			const is = IS[j];
+			const x = is * invI;
+			const vd0 = x < 1e-4 ? nvt * (lnI - LNIS[j] + x * (1 - x * (0.5 - x / 3))) : nvt * Math.log1p(currentA / is);
+			const vd = GSH[j] === 0 ? vd0 : shuntCorrectedVoltage(currentA, is, nvt, GSH[j], vd0);
+			out[j] = vd + currentA * RS[j];
 		}
 		return out;
 	}
@@ -160,7 +249,13 @@ export class ModelTable {
 	 */
 	capacitance(j: number, biasV: number, temperatureC: number, constants: PhysicalConstants = SI_2019): number {
 		if (this.CJO[j] === 0) return 0;
-		const s = scaleModel(this.models[j], temperatureC, constants);
+		const s = this.full(this.scaled(temperatureC, constants), j);
 		return depletionCapacitance(s, solveBias(s, biasV).vd);
 	}
+}
+
+/** Current of a scaled model by the general solver, with an optional extra series resistance; always finite. */
+function general(s: ScaledJunction, V: number, extraRs: number): number {
+	const i = solveBias(extraRs > 0 ? { ...s, RS: s.RS + extraRs } : s, V).i;
+	return Number.isFinite(i) ? i : i > 0 ? Number.MAX_VALUE : -Number.MAX_VALUE;
 }

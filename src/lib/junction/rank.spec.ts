@@ -7,6 +7,7 @@ import { createModel, type JunctionModelInput } from './model';
 import { diodeCurrent, forwardVoltage } from './shockley';
 import { junctionCapacitance } from './capacitance';
 import { expectRelClose } from './test-helpers';
+import { CODATA_2014 } from './constants';
 
 function part(id: string, IS: number, over: Partial<PartRecord> = {}, extra: Partial<JunctionModelInput> = {}): PartRecord {
 	return {
@@ -116,8 +117,12 @@ describe('rank core', () => {
 		const res = table.rank(op);
 		expect(table.rows(res, op).map((r) => r.id)).toEqual(['ok']);
 		expect(Array.from(res.excluded)).toEqual([1]);
+		// Listed when asked for, but after the part within its rating (the rating is a limit it fails).
 		const res2 = table.rank({ ...op, includeOverRating: true });
-		expect(table.rows(res2, op).map((r) => r.id)).toEqual(['low-rated', 'ok']);
+		expect(table.rows(res2, op).map((r) => [r.id, r.meetsLimits])).toEqual([
+			['ok', true],
+			['low-rated', false]
+		]);
 	});
 
 	it('source resistance only lowers the forward current; refresh replaces content', () => {
@@ -156,6 +161,21 @@ describe('rank core', () => {
 		expect(() => table.rank(op, undefined, { limit: -1 })).toThrow(RangeError);
 	});
 
+	it('gives the same result from the table\'s kept buffers (reuse) as from fresh arrays', () => {
+		const r = mulberry32(9);
+		const table = new CatalogueTable(Array.from({ length: 50 }, (_, k) => part(`p${k}`, 10 ** (-16 + 4 * r()), { ratings: { reverseV: 2 + 10 * r() } })));
+		for (const op of [
+			{ biasV: -5, temperatureRangeC: [0, 85] as [number, number], clampCurrentA: 1e-3, maxForwardDropV: 0.75 },
+			{ biasV: -3, temperatureC: 40, includeOverRating: true, maxLeakageA: 1e-12 }
+		]) {
+			const fresh = table.rank(op, undefined, { limit: 20 });
+			const kept = table.rank(op, undefined, { limit: 20, reuse: true });
+			expect(table.rows(kept, op, 0, 20)).toEqual(table.rows(fresh, op, 0, 20));
+			expect(Array.from(kept.excluded)).toEqual(Array.from(fresh.excluded));
+			expect([kept.ranked, kept.meetingLimits]).toEqual([fresh.ranked, fresh.meetingLimits]);
+		}
+	});
+
 	it('orders and counts only the parts an include mask lets through', () => {
 		const table = new CatalogueTable([part('a', 1e-13), part('b', 1e-15, { ratings: { reverseV: 3 } }), part('c', 1e-14), part('d', 1e-16)]);
 		const op = { biasV: -5, temperatureC: 25 };
@@ -165,6 +185,111 @@ describe('rank core', () => {
 		expect(Array.from(res.excluded)).toEqual([1]);
 		expect(Array.from(table.rank(op, undefined, { include: Uint8Array.of(1, 0, 1, 0) }).excluded)).toEqual([]);
 		expect(() => table.rank(op, undefined, { include: new Uint8Array(3) })).toThrow(RangeError);
+	});
+
+	it('lists parts meeting every stated limit first, each group by worst leakage', () => {
+		// Invented: a red LED (N 2, IS 1e-20 A, EG 1.9 eV) drops about 1.9 V at 1 mA but leaks
+		// almost nothing; silicon parts drop about 0.6–0.7 V. Under a 0.8 V limit the LED must
+		// follow every silicon part that meets the limit, though its leakage is the lowest.
+		const led: PartRecord = {
+			...part('led', 1e-20, { kind: 'led' }),
+			samples: [1, 1.2, 0.9].map((f) => createModel({ IS: 1e-20 * f, N: 2, RS: 5, EG: 1.9 }, 'wide-gap'))
+		};
+		const recs = [part('si-high', 1e-12), led, part('si-low', 1e-14), part('si-slow', 1e-15, {}, { RS: 300 }), part('si-mid', 1e-13)];
+		const table = new CatalogueTable(recs);
+		const op = { biasV: -5, temperatureRangeC: [0, 85] as [number, number], clampCurrentA: 1e-3 };
+		// Without limits: leakage order only, and every part meets the (absent) limits.
+		const free = table.rows(table.rank(op), op);
+		expect(free.map((r) => r.id)).toEqual(['led', 'si-slow', 'si-low', 'si-mid', 'si-high']);
+		expect(free.every((r) => r.meetsLimits)).toBe(true);
+		const limited = { ...op, maxForwardDropV: 0.8 };
+		const res = table.rank(limited);
+		const rows = table.rows(res, limited);
+		expect(rows.map((r) => [r.id, r.meetsLimits])).toEqual([
+			['si-low', true],
+			['si-mid', true],
+			['si-high', true],
+			['led', false],
+			['si-slow', false]
+		]);
+		expect(rows[3].flags).toContain('forward-drop-over-limit');
+		expect(rows[3].forwardDropV!.worst).toBeGreaterThan(1.5);
+		expect(res.meetingLimits).toBe(3);
+		expect(res.ranked).toBe(5);
+		// A limit cutting inside either group gives the same first parts as the full order.
+		for (const limit of [0, 1, 3, 4, 5, 9])
+			expect(Array.from(table.rank(limited, undefined, { limit }).order)).toEqual(Array.from(res.order.subarray(0, limit)));
+		// A leakage budget between si-low's and si-mid's worst leakage puts si-mid and si-high among the failing parts.
+		const budget = { ...limited, maxLeakageA: 0.5 * (res.worstA[2] + res.worstA[4]) };
+		const b = table.rows(table.rank(budget), budget);
+		expect(b.map((r) => [r.id, r.meetsLimits])).toEqual([
+			['si-low', true],
+			['led', false],
+			['si-slow', false],
+			['si-mid', false],
+			['si-high', false]
+		]);
+		expect(b[3].flags).toEqual(['over-leakage-target']);
+	});
+
+	it('holds capacitance against its limit for every part, not only the listed ones', () => {
+		const cap = (id: string, IS: number, CJO: number) => part(id, IS, {}, { CJO, VJ: 0.7, M: 0.4 });
+		const table = new CatalogueTable([cap('big', 1e-16, 50e-12), cap('small', 1e-13, 2e-12), part('unknown', 1e-14)]);
+		const op = { biasV: -5, temperatureRangeC: [0, 50] as [number, number], maxCapacitanceF: 10e-12 };
+		const res = table.rank(op, undefined, { limit: 2 });
+		const rows = table.rows(res, op);
+		// 'big' leaks least but is over the limit; a part without CJO is not held against it.
+		expect(rows.map((r) => r.id)).toEqual(['unknown', 'small']);
+		expectRelClose(res.capacitanceF[0], junctionCapacitance(table.part(0).samples[1], -5, 25), 1e-12);
+		expect(res.flags[0] & (1 << FLAG_CODES.indexOf('over-capacitance-limit'))).not.toBe(0);
+		expectRelClose(rows[1].capacitanceF!, junctionCapacitance(table.part(1).samples[1], -5, 25), 1e-12);
+	});
+
+	it('flags a wide-gap part whose band gap was assumed, and not one whose band gap was given', () => {
+		const wide = (id: string, extra: Partial<JunctionModelInput>): PartRecord => ({
+			...part(id, 1e-20),
+			samples: [1, 1.1, 0.9].map((f) => createModel({ IS: 1e-20 * f, N: 2, ...extra }, 'wide-gap'))
+		});
+		const table = new CatalogueTable([wide('assumed', {}), wide('given', { EG: 2.9 }), part('silicon', 1e-15)]);
+		const op = { biasV: -5, temperatureC: 25 };
+		const flags = new Map(table.rows(table.rank(op), op).map((r) => [r.id, r.flags]));
+		expect(flags.get('assumed')).toContain('band-gap-assumed');
+		expect(flags.get('given')).not.toContain('band-gap-assumed');
+		expect(flags.get('silicon')).not.toContain('band-gap-assumed');
+	});
+
+	it('gives the same numbers from kept temperature scaling as from a fresh table, across many temperatures and both constant sets', () => {
+		const recs = [
+			part('plain', 1e-14),
+			part('shunt', 1e-13, {}, { RSH: 1e7 }),
+			part('rec', 1e-14, {}, { ISR: 1e-11 }),
+			part('bv', 1e-14, {}, { BV: 6.2, CJO: 2e-12 })
+		];
+		const table = new CatalogueTable(recs);
+		const ops = Array.from({ length: 12 }, (_, k) => ({
+			biasV: k % 2 ? -7 : -2,
+			temperatureRangeC: [-40 + 5 * k, 25 + 10 * k] as [number, number],
+			clampCurrentA: 1e-3,
+			maxCapacitanceF: 1e-12
+		}));
+		const first = ops.map((op) => table.rank(op));
+		// Repeat (kept scaling hits), after more temperatures than the table keeps (evictions), and with CODATA 2014.
+		for (const [k, op] of ops.entries()) {
+			const again = table.rank(op);
+			const fresh = new CatalogueTable(recs).rank(op);
+			for (const col of ['worstA', 'typicalA', 'dropWorstV', 'dropColdV', 'capacitanceF'] as const) {
+				expect(Array.from(again[col])).toEqual(Array.from(fresh[col]));
+				expect(Array.from(first[k][col])).toEqual(Array.from(fresh[col]));
+			}
+			const codata = table.rank(op, CODATA_2014);
+			const freshCodata = new CatalogueTable(recs).rank(op, CODATA_2014);
+			expect(Array.from(codata.worstA)).toEqual(Array.from(freshCodata.worstA));
+			expect(Array.from(codata.worstA)).not.toEqual(Array.from(fresh.worstA));
+		}
+		// And the kept values are the scalar engine's.
+		const op = ops[5];
+		const hot = op.temperatureRangeC[1];
+		recs.forEach((r, p) => expectRelClose(table.rank(op).worstA[p], Math.max(...r.samples.map((m) => -diodeCurrent(m, op.biasV, hot))), 1e-12));
 	});
 
 	it('every flag has an explanation', () => {
@@ -197,6 +322,9 @@ describe('ordering by leakage', () => {
 			for (const limit of [Infinity, 0, 1, 2, Math.floor(idx.length / 2), idx.length - 1, idx.length]) {
 				const got = Array.from(orderByLeakage(Int32Array.from(idx), worst, typical, limit));
 				expect(got).toEqual(want.slice(0, Math.min(limit, idx.length)));
+				// With a work array (offset inside its buffer) the answer is the same.
+				const scratch = new Float64Array(idx.length + 3).subarray(3);
+				expect(Array.from(orderByLeakage(Int32Array.from(idx), worst, typical, limit, scratch))).toEqual(got);
 			}
 		}
 	});

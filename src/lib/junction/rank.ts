@@ -12,8 +12,14 @@
  *    junction voltage falls with temperature), but a model with a large N and little
  *    temperature dependence of IS (wide-gap, N ≈ 2) can have the hot end higher;
  *  - capacitance at the bias (median over samples at the mid temperature) when CJO is known.
- * Order: worst-case leakage ascending, ties by typical leakage, then by part index (the
- * order of the records given, which the server keeps by part id).
+ * Limits: an operating point may state a forward-drop limit (maxForwardDropV), a leakage
+ * budget (maxLeakageA) and a capacitance limit (maxCapacitanceF); a part failing one raises
+ * its flag. A part listed beyond its reverse rating (includeOverRating) fails that limit too.
+ * A part whose capacitance is unknown (no CJO) is not held against the capacitance limit.
+ * Order: parts meeting every limit first, then the parts failing one; within each group
+ * worst-case leakage ascending, ties by typical leakage, then by part index (the order of
+ * the records given, which the server keeps by part id). This is the one place the rank
+ * order is decided; the server's API lists it as is.
  */
 import { SI_2019, type PhysicalConstants } from './constants';
 import type { JunctionModel } from './model';
@@ -52,6 +58,10 @@ export interface OperatingPoint {
 	clampCurrentA?: number;
 	/** Flag parts whose worst-case forward drop exceeds this [V]. */
 	maxForwardDropV?: number;
+	/** Leakage budget: flag parts whose worst-case leakage exceeds this [A]. */
+	maxLeakageA?: number;
+	/** Flag parts whose capacitance at the bias (median sample, mid temperature) exceeds this [F]. */
+	maxCapacitanceF?: number;
 	/** Margin kept below the rated reverse voltage [V] (default 0). */
 	reverseMarginV?: number;
 	/** Keep parts biased beyond their reverse rating (flagged) instead of excluding them. */
@@ -70,7 +80,10 @@ export const FLAG_CODES = [
 	'light-sensitive',
 	'poor-fit',
 	'few-samples',
-	'forward-drop-over-limit'
+	'forward-drop-over-limit',
+	'over-leakage-target',
+	'over-capacitance-limit',
+	'band-gap-assumed'
 ] as const;
 export type FlagCode = (typeof FLAG_CODES)[number];
 
@@ -85,7 +98,11 @@ const FLAG_TEXT: Record<FlagCode, string> = {
 	'light-sensitive': 'Clear or glass package, or an LED: ambient light generates photocurrent that can swamp the leakage.',
 	'poor-fit': 'The model fits the measured sweep poorly (large residuals), so predictions are less certain.',
 	'few-samples': 'Fewer than three samples were measured, so part-to-part spread is unknown.',
-	'forward-drop-over-limit': 'The worst-case forward drop at the clamp current exceeds the requested limit.'
+	'forward-drop-over-limit': 'The worst-case forward drop at the clamp current exceeds the requested limit.',
+	'over-leakage-target': 'The worst-case leakage exceeds the requested leakage budget.',
+	'over-capacitance-limit': 'The junction capacitance at the bias exceeds the requested limit.',
+	'band-gap-assumed':
+		'The band gap (EG) of this wide-gap part was neither given nor fitted; a typical value was assumed, so the leakage at other temperatures is uncertain.'
 };
 
 /**
@@ -111,6 +128,8 @@ export interface RankedPart {
 	forwardDropV?: { hot: number; cold: number; worst: number };
 	capacitanceF?: number;
 	flags: FlagCode[];
+	/** The part meets every limit the operating point states (see the file header). */
+	meetsLimits: boolean;
 }
 
 /** Options of `CatalogueTable.rank`. */
@@ -125,14 +144,23 @@ export interface RankOptions {
 	 * as excluded (e.g. the catalogue's kind and text filters). Length must be the table size.
 	 */
 	include?: Uint8Array;
+	/**
+	 * Write the result's per-part columns into buffers the table keeps instead of fresh
+	 * arrays: no allocation proportional to the catalogue, but the result is only valid
+	 * until the next `rank` call with `reuse` on this table (use it when the result is read
+	 * at once, as the server does).
+	 */
+	reuse?: boolean;
 }
 
 /** Columnar ranking result; `rows()` turns a page of it into objects. */
 export interface RankResult {
-	/** Part indices, best (lowest worst-case leakage) first; excluded parts are left out. At most `limit` long. */
+	/** Part indices in rank order (file header); excluded parts are left out. At most `limit` long. */
 	order: Int32Array;
 	/** How many parts the full order holds (≥ order.length when a limit cut it). */
 	ranked: number;
+	/** Of those, how many meet every limit (they come first in the order). */
+	meetingLimits: number;
 	/** Parts excluded by the reverse rating (among the included ones). */
 	excluded: Int32Array;
 	typicalA: Float64Array;
@@ -142,11 +170,14 @@ export interface RankResult {
 	dropColdV: Float64Array;
 	dropWorstV: Float64Array;
 	flags: Uint32Array;
+	/** Median capacitance at the bias [F], computed for every part only when a capacitance limit is given (else NaN). */
+	capacitanceF: Float64Array;
 	hotC: number;
 	coldC: number;
 }
 
-function insertionSortPrefix(a: Float64Array, n: number): void {
+/** Median of a[0…n−1] (mean of the middle two for even n); sorts that prefix in place. */
+function median(a: Float64Array, n: number): number {
 	for (let i = 1; i < n; i++) {
 		const x = a[i];
 		let j = i - 1;
@@ -156,11 +187,15 @@ function insertionSortPrefix(a: Float64Array, n: number): void {
 		}
 		a[j + 1] = x;
 	}
+	return n % 2 ? a[n >> 1] : 0.5 * (a[(n >> 1) - 1] + a[n >> 1]);
 }
 
 /**
  * In-memory catalogue built from plain records. Build once at start-up, then call
- * `refresh(records)` whenever parts change; `rank(op)` is read-only and may run concurrently.
+ * `refresh(records)` whenever parts change. `rank(op)` is synchronous and leaves the records
+ * alone; it keeps work arrays, per-temperature caches (scaled parameters, the
+ * temperature-extrapolation test) and, with `reuse`, its result buffers in the table, all
+ * dropped by `refresh`.
  */
 export class CatalogueTable {
 	private parts: PartRecord[] = [];
@@ -176,6 +211,14 @@ export class CatalogueTable {
 	private scratchHot = new Float64Array(0);
 	private scratchCold = new Float64Array(0);
 	private scratchSort = new Float64Array(0);
+	private scratchDrop = new Float64Array(0);
+	private scratchPass = new Int32Array(0);
+	private scratchFail = new Int32Array(0);
+	private counts = new Int32Array(3);
+	private resultColumns = new Float64Array(0);
+	private resultFlags = new Uint32Array(0);
+	private scratchKeys = new Float64Array(0);
+	private farCache = new Map<number, Uint8Array>();
 
 	constructor(records: readonly PartRecord[] = []) {
 		this.refresh(records);
@@ -219,6 +262,7 @@ export class CatalogueTable {
 			if (p.transparentPackage || p.kind === 'led') f |= bit('light-sensitive');
 			if ((p.fitRmsResidualV ?? 0) > POOR_FIT_RMS_V) f |= bit('poor-fit');
 			if (p.samples.length < 3) f |= bit('few-samples');
+			if (p.samples.some((s) => s.egAssumed)) f |= bit('band-gap-assumed');
 			flags[k] = f;
 			minMeasured[k] = p.measured.minAbsCurrentA;
 			ratedReverse[k] = p.ratings.reverseV ?? Infinity;
@@ -240,6 +284,13 @@ export class CatalogueTable {
 		this.scratchHot = new Float64Array(all.length);
 		this.scratchCold = new Float64Array(all.length);
 		this.scratchSort = new Float64Array(maxSamples);
+		this.scratchDrop = new Float64Array(all.length);
+		this.scratchPass = new Int32Array(n);
+		this.scratchKeys = new Float64Array(n);
+		this.farCache = new Map();
+		this.resultColumns = new Float64Array(0);
+		this.resultFlags = new Uint32Array(0);
+		this.scratchFail = new Int32Array(n);
 	}
 
 	/** The record behind a part index. */
@@ -264,30 +315,100 @@ export class CatalogueTable {
 	rank(op: OperatingPoint, constants: PhysicalConstants = SI_2019, options: RankOptions = {}): RankResult {
 		const [cold, hot] = temperatureEnds(op);
 		if (!Number.isFinite(op.biasV)) throw new RangeError(`bias must be finite, got ${op.biasV}`);
-		const margin = op.reverseMarginV ?? 0;
 		const n = this.parts.length;
 		const include = options.include;
 		if (include && include.length !== n) throw new RangeError(`include mask has ${include.length} entries for ${n} parts`);
 		const limit = options.limit ?? Infinity;
 		if (!(limit >= 0)) throw new RangeError(`limit must be a non-negative number, got ${options.limit}`);
 		const hotI = this.models.currents(op.biasV, hot, this.scratchHot, constants, op.sourceResistanceOhm ?? 0);
-		const typicalA = new Float64Array(n);
-		const worstA = new Float64Array(n);
-		const dropHotV = new Float64Array(n).fill(NaN);
-		const dropColdV = new Float64Array(n).fill(NaN);
-		const dropWorstV = new Float64Array(n).fill(NaN);
-		const flags = new Uint32Array(n);
-		const sort = this.scratchSort;
+		// One allocation for the result's columns, or none when reusing the table's.
+		if (options.reuse && this.resultColumns.length !== 6 * n) {
+			this.resultColumns = new Float64Array(6 * n);
+			this.resultFlags = new Uint32Array(n);
+		}
+		const columns = options.reuse ? this.resultColumns : new Float64Array(6 * n);
+		const typicalA = columns.subarray(0, n);
+		const worstA = columns.subarray(n, 2 * n);
+		const dropHotV = columns.subarray(2 * n, 3 * n);
+		const dropColdV = columns.subarray(3 * n, 4 * n);
+		const dropWorstV = columns.subarray(4 * n, 5 * n);
+		const capacitanceF = columns.subarray(5 * n, 6 * n);
+		// NaN = not computed: forward drops without a clamp current, capacitance without a limit.
+		if (op.clampCurrentA === undefined) columns.fill(NaN, 2 * n, 5 * n);
+		columns.fill(NaN, 5 * n);
+		const flags = options.reuse ? this.resultFlags : new Uint32Array(n);
 		let hotV: Float64Array | undefined;
 		let coldV: Float64Array | undefined;
 		if (op.clampCurrentA !== undefined) {
-			hotV = this.models.forwardVoltages(op.clampCurrentA, hot, new Float64Array(this.models.length), constants);
-			coldV =
-				cold === hot ? hotV : this.models.forwardVoltages(op.clampCurrentA, cold, this.scratchCold, constants);
+			hotV = this.models.forwardVoltages(op.clampCurrentA, hot, this.scratchDrop, constants);
+			coldV = cold === hot ? hotV : this.models.forwardVoltages(op.clampCurrentA, cold, this.scratchCold, constants);
 		}
-		let kept = 0;
-		const keep = new Int32Array(n);
-		const excluded: number[] = [];
+		this.partLoop(op, cold, hot, hotI, hotV, coldV, include, constants, typicalA, worstA, dropHotV, dropColdV, dropWorstV, capacitanceF, flags);
+		const passing = this.counts[0];
+		const failing = this.counts[1];
+		const excluded = this.counts[2] > 0 ? overRating(flags, include, this.counts[2]) : new Int32Array(0);
+		const pass = this.scratchPass;
+		const fail = this.scratchFail;
+		let order = orderByLeakage(pass.subarray(0, passing), worstA, typicalA, limit, this.scratchKeys);
+		if (order.length < limit && failing > 0) {
+			const rest = orderByLeakage(fail.subarray(0, failing), worstA, typicalA, limit - order.length, this.scratchKeys);
+			const both = new Int32Array(order.length + rest.length);
+			both.set(order);
+			both.set(rest, order.length);
+			order = both;
+		}
+		return {
+			order,
+			ranked: passing + failing,
+			meetingLimits: passing,
+			excluded,
+			typicalA,
+			worstA,
+			dropHotV,
+			dropColdV,
+			dropWorstV,
+			flags,
+			capacitanceF,
+			hotC: hot,
+			coldC: cold
+		};
+	}
+
+	/**
+	 * The per-part pass of `rank` (its own function so the engine optimises it whole):
+	 * statistics over samples, flags, and the split into parts meeting every limit (`pass`)
+	 * and the rest (`fail`), both in index order; `counts` gets [passing, failing, excluded].
+	 */
+	private partLoop(
+		op: OperatingPoint,
+		cold: number,
+		hot: number,
+		hotI: Float64Array,
+		hotV: Float64Array | undefined,
+		coldV: Float64Array | undefined,
+		include: Uint8Array | undefined,
+		constants: PhysicalConstants,
+		typicalA: Float64Array,
+		worstA: Float64Array,
+		dropHotV: Float64Array,
+		dropColdV: Float64Array,
+		dropWorstV: Float64Array,
+		capacitanceF: Float64Array,
+		flags: Uint32Array
+	): void {
+		const n = this.parts.length;
+		const margin = op.reverseMarginV ?? 0;
+		const maxDrop = op.maxForwardDropV ?? Infinity;
+		const maxLeak = op.maxLeakageA ?? Infinity;
+		const maxCap = op.maxCapacitanceF;
+		const sort = this.scratchSort;
+		const farCold = this.farAt(cold);
+		const farHot = this.farAt(hot);
+		const mid = 0.5 * (hot + cold);
+		const pass = this.scratchPass;
+		const fail = this.scratchFail;
+		const counts = this.counts;
+		counts[0] = counts[1] = counts[2] = 0;
 		for (let p = 0; p < n; p++) {
 			const s0 = this.start[p];
 			const c = this.count[p];
@@ -297,59 +418,47 @@ export class CatalogueTable {
 				sort[k] = a;
 				if (a > worst) worst = a;
 			}
-			insertionSortPrefix(sort, c);
-			const typical = c % 2 ? sort[c >> 1] : 0.5 * (sort[(c >> 1) - 1] + sort[c >> 1]);
+			const typical = median(sort, c);
 			typicalA[p] = typical;
 			worstA[p] = worst;
 			let f = this.staticFlags[p];
 			if (typical < this.minMeasured[p] / 10) f |= BIT_CURRENT_EXTRAPOLATED;
-			if (this.farFromMeasured(p, cold) || this.farFromMeasured(p, hot)) f |= BIT_TEMPERATURE_EXTRAPOLATED;
+			if (farCold[p] | farHot[p]) f |= BIT_TEMPERATURE_EXTRAPOLATED;
+			if (worst > maxLeak) f |= BIT_OVER_LEAKAGE_TARGET;
 			if (hotV && coldV) {
-				let h = 0;
 				let cw = 0;
 				for (let k = 0; k < c; k++) {
 					sort[k] = hotV[s0 + k];
 					if (hotV[s0 + k] > cw) cw = hotV[s0 + k];
 					if (coldV[s0 + k] > cw) cw = coldV[s0 + k];
 				}
-				insertionSortPrefix(sort, c);
-				h = c % 2 ? sort[c >> 1] : 0.5 * (sort[(c >> 1) - 1] + sort[c >> 1]);
+				dropHotV[p] = median(sort, c);
 				for (let k = 0; k < c; k++) sort[k] = coldV[s0 + k];
-				insertionSortPrefix(sort, c);
-				dropHotV[p] = h;
-				dropColdV[p] = c % 2 ? sort[c >> 1] : 0.5 * (sort[(c >> 1) - 1] + sort[c >> 1]);
+				dropColdV[p] = median(sort, c);
 				dropWorstV[p] = cw;
-				if (op.maxForwardDropV !== undefined && cw > op.maxForwardDropV) f |= BIT_FORWARD_DROP_OVER_LIMIT;
+				if (cw > maxDrop) f |= BIT_FORWARD_DROP_OVER_LIMIT;
 			}
-			flags[p] = f;
+			if (maxCap !== undefined && this.hasCjo[p] && (!include || include[p] !== 0)) {
+				const cap = this.medianCapacitance(p, op.biasV, mid, constants);
+				capacitanceF[p] = cap;
+				if (cap > maxCap) f |= BIT_OVER_CAPACITANCE_LIMIT;
+			}
 			const over = op.biasV < 0 && -op.biasV > this.ratedReverse[p] - margin;
-			if (over) flags[p] |= BIT_OVER_REVERSE_RATING;
+			if (over) f |= BIT_OVER_REVERSE_RATING;
+			flags[p] = f;
 			if (include && include[p] === 0) continue;
-			if (over && !op.includeOverRating) {
-				excluded.push(p);
-				continue;
-			}
-			keep[kept++] = p;
+			if (over && !op.includeOverRating) counts[2]++;
+			else if ((f & LIMIT_BITS) === 0) pass[counts[0]++] = p;
+			else fail[counts[1]++] = p;
 		}
-		const order = orderByLeakage(keep.subarray(0, kept), worstA, typicalA, limit);
-		return {
-			order,
-			ranked: kept,
-			excluded: Int32Array.from(excluded),
-			typicalA,
-			worstA,
-			dropHotV,
-			dropColdV,
-			dropWorstV,
-			flags,
-			hotC: hot,
-			coldC: cold
-		};
+		// Nothing after the loop: code the first (on-stack-replaced) run never reached
+		// would make V8 drop the optimised loop at its end on every call.
 	}
 
 	/**
 	 * Turn a page of a ranking into plain objects (allocates only for the page).
-	 * Capacitance is evaluated here, per listed part, at the mid temperature.
+	 * Capacitance is evaluated here, per listed part, at the mid temperature, unless the
+	 * ranking already did (capacitance limit).
 	 */
 	rows(result: RankResult, op: OperatingPoint, offset = 0, limit = 50, constants: PhysicalConstants = SI_2019): RankedPart[] {
 		const out: RankedPart[] = [];
@@ -363,29 +472,45 @@ export class CatalogueTable {
 				kind: rec.kind,
 				samples: this.count[p],
 				leakageA: { typical: result.typicalA[p], worst: result.worstA[p] },
-				flags: flagsFromBits(result.flags[p])
+				flags: flagsFromBits(result.flags[p]),
+				meetsLimits: (result.flags[p] & LIMIT_BITS) === 0
 			};
 			if (!Number.isNaN(result.dropWorstV[p]))
 				row.forwardDropV = { hot: result.dropHotV[p], cold: result.dropColdV[p], worst: result.dropWorstV[p] };
-			if (this.hasCjo[p]) {
-				const caps: number[] = [];
-				for (let k = 0; k < this.count[p]; k++) caps.push(this.models.capacitance(this.start[p] + k, op.biasV, mid, constants));
-				caps.sort((a, b) => a - b);
-				const c = caps.length;
-				row.capacitanceF = c % 2 ? caps[c >> 1] : 0.5 * (caps[(c >> 1) - 1] + caps[c >> 1]);
-			}
+			if (this.hasCjo[p])
+				row.capacitanceF = Number.isNaN(result.capacitanceF[p])
+					? this.medianCapacitance(p, op.biasV, mid, constants)
+					: result.capacitanceF[p];
 			out.push(row);
 		}
 		return out;
 	}
 
-	private farFromMeasured(p: number, tC: number): boolean {
-		const a = this.tempOffsets[p];
-		const b = this.tempOffsets[p + 1];
-		if (a === b) return true;
-		let best = Infinity;
-		for (let k = a; k < b; k++) best = Math.min(best, Math.abs(this.temps[k] - tC));
-		return best > TEMPERATURE_EXTRAPOLATION_K;
+	/** Median over a part's samples of the depletion capacitance at a bias [V] and temperature [°C], in farads. */
+	private medianCapacitance(p: number, biasV: number, temperatureC: number, constants: PhysicalConstants): number {
+		const c = this.count[p];
+		const sort = this.scratchSort;
+		for (let k = 0; k < c; k++) sort[k] = this.models.capacitance(this.start[p] + k, biasV, temperatureC, constants);
+		return median(sort, c);
+	}
+
+	/**
+	 * Per part, 1 when a temperature [°C] lies more than TEMPERATURE_EXTRAPOLATION_K from every
+	 * temperature the part was measured at (kept for the last few temperatures asked for).
+	 */
+	private farAt(tC: number): Uint8Array {
+		const hit = this.farCache.get(tC);
+		if (hit) return hit;
+		const n = this.parts.length;
+		const far = new Uint8Array(n);
+		for (let p = 0; p < n; p++) {
+			let best = Infinity;
+			for (let k = this.tempOffsets[p]; k < this.tempOffsets[p + 1]; k++) best = Math.min(best, Math.abs(this.temps[k] - tC));
+			far[p] = best > TEMPERATURE_EXTRAPOLATION_K ? 1 : 0;
+		}
+		if (this.farCache.size >= 8) this.farCache.delete(this.farCache.keys().next().value as number);
+		this.farCache.set(tC, far);
+		return far;
 	}
 }
 
@@ -411,15 +536,22 @@ function compareNumbers(x: number, y: number): number {
  * of the exact order; each such run is re-sorted with the exact comparison. With a limit,
  * the run straddling the cut is taken whole before cutting.
  * @param parts part indices in ascending order
+ * @param scratch optional work array of at least parts.length entries (else one is allocated)
  */
-export function orderByLeakage(parts: Int32Array, worst: Float64Array, typical: Float64Array, limit = Infinity): Int32Array {
+export function orderByLeakage(
+	parts: Int32Array,
+	worst: Float64Array,
+	typical: Float64Array,
+	limit = Infinity,
+	scratch?: Float64Array
+): Int32Array {
 	const m = parts.length;
 	const take = Math.min(m, Math.max(0, Math.floor(limit)));
 	if (take === 0) return new Int32Array(0);
 	const bits = Math.max(1, Math.ceil(Math.log2(m)));
 	if (bits > 31) throw new RangeError(`too many parts to order (${m})`);
-	const keys = new Float64Array(m);
-	const words = new Uint32Array(keys.buffer);
+	const keys = scratch && scratch.length >= m ? scratch.subarray(0, m) : new Float64Array(m);
+	const words = new Uint32Array(keys.buffer, keys.byteOffset, 2 * m);
 	for (let j = 0; j < m; j++) {
 		const w = worst[parts[j]];
 		// NaN and ±Infinity would not survive packing; they join the largest finite value's run.
@@ -492,6 +624,14 @@ function selectSmallest(a: Float64Array, k: number): void {
 	}
 }
 
+/** The `count` parts flagged over their reverse rating (among the included ones), in index order. */
+function overRating(flags: Uint32Array, include: Uint8Array | undefined, count: number): Int32Array {
+	const out = new Int32Array(count);
+	let e = 0;
+	for (let p = 0; p < flags.length; p++) if (flags[p] & BIT_OVER_REVERSE_RATING && !(include && include[p] === 0)) out[e++] = p;
+	return out;
+}
+
 function bit(code: FlagCode): number {
 	return 1 << FLAG_CODES.indexOf(code);
 }
@@ -501,6 +641,10 @@ const BIT_CURRENT_EXTRAPOLATED = bit('current-extrapolated');
 const BIT_TEMPERATURE_EXTRAPOLATED = bit('temperature-extrapolated');
 const BIT_FORWARD_DROP_OVER_LIMIT = bit('forward-drop-over-limit');
 const BIT_OVER_REVERSE_RATING = bit('over-reverse-rating');
+const BIT_OVER_LEAKAGE_TARGET = bit('over-leakage-target');
+const BIT_OVER_CAPACITANCE_LIMIT = bit('over-capacitance-limit');
+/** Flags that mean a stated limit is not met (the part ranks after those meeting every limit). */
+const LIMIT_BITS = BIT_FORWARD_DROP_OVER_LIMIT | BIT_OVER_LEAKAGE_TARGET | BIT_OVER_CAPACITANCE_LIMIT | BIT_OVER_REVERSE_RATING;
 
 /** Decode a flag bit set into codes, in FLAG_CODES order. */
 export function flagsFromBits(bits: number): FlagCode[] {

@@ -7,7 +7,7 @@
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { createModel, emitModelCard, CODATA_2014, thermalVoltage, celsiusToKelvin } from '$lib/junction';
 import type { StoredModel } from '$lib/server/db/schema';
-import type { RankItem, RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
+import { FLAG_WORDS, type RankItem, type RankOperatingPoint, type RankResponse } from '$lib/schemas/rank';
 import { runNgspiceOp } from '../reference/ngspice';
 import { api, browse, unique } from './helpers';
 import { createParts, deleteParts, WELL_MEASURED, type TestPart } from './rank-fixtures';
@@ -84,7 +84,7 @@ function ngspiceExpectations(op: RankOperatingPoint): Expected[] {
 	catalogue.forEach((p, pi) => {
 		const entry = { part: p.partNumber, n: p.samples[0].N, samples: [] as { i: string; vh?: string; vc?: string }[] };
 		p.samples.forEach((s, si) => {
-			const model = createModel(s, p.material === 'metal-semiconductor' ? 'schottky' : 'silicon');
+			const model = createModel(s, p.material);
 			const name = `p${pi}s${si}`;
 			lines.push(emitModelCard(name, model, { forSimulator: true }));
 			k++;
@@ -198,14 +198,66 @@ describe('flags raised by crafted parts', () => {
 		await seen(ftag, cases.length);
 	});
 
+	// Flags that mean the part fails a limit the operating point states.
+	const LIMIT_FLAGS: RankItem['flags'] = ['forward-drop-over-limit', 'over-leakage-target', 'over-capacitance-limit', 'over-reverse-rating'];
+
 	for (const [name, , flags] of cases) {
 		test(`${name} → ${flags.join(', ') || 'no flag'}`, async () => {
 			const r = await rank({ ...op, q: `${ftag}-${name}` });
 			const item = r.items.find((i) => i.partNumber === `${ftag}-${name}`);
 			expect(item, 'the part is listed').toBeDefined();
 			expect(item!.flags).toEqual(flags);
+			expect(item!.meetsLimits).toBe(!flags.some((f) => LIMIT_FLAGS.includes(f)));
 		});
 	}
+
+	test('parts meeting every limit come first, then the rest, each group by worst leakage', async () => {
+		// The clean part leaks more than the LED (N 2, IS 1e-20 A, about 2 V at 1 mA), whose
+		// drop is over the 0.85 V limit: the clean part and the others within limits rank first.
+		const [led] = await createParts([
+			{ partNumber: `${ftag}-order-led`, kind: 'led', material: 'wide-gap', samples: good.map((s) => ({ ...s, IS: s.IS * 1e-5, N: 2, EG: 2.2 })) }
+		]);
+		created.push(led);
+		await seen(`${ftag}-order-led`, 1);
+		const r = await rank({ ...op, q: ftag });
+		const names = r.items.map((i) => i.partNumber.slice(ftag.length + 1));
+		const ledItem = r.items.find((i) => i.partNumber === `${ftag}-order-led`)!;
+		const clean = r.items.find((i) => i.partNumber === `${ftag}-clean`)!;
+		expect(ledItem.leakageA.worst).toBeLessThan(clean.leakageA.worst);
+		expect(ledItem.forwardDropV!.worst).toBeGreaterThan(1.5);
+		expect(ledItem.meetsLimits).toBe(false);
+		expect(names.indexOf('order-led')).toBeGreaterThan(names.indexOf('clean'));
+		// Every part meeting the limits precedes every part failing one; each group by worst leakage.
+		const meets = r.items.map((i) => i.meetsLimits);
+		expect(meets).toEqual([...meets].sort((a, b) => Number(b) - Number(a)));
+		expect(meets.filter(Boolean).length).toBeGreaterThan(3);
+		for (const group of [true, false]) {
+			const worst = r.items.filter((i) => i.meetsLimits === group).map((i) => i.leakageA.worst);
+			expect(worst).toEqual([...worst].sort((a, b) => a - b));
+		}
+		// Without the limits (and without the part over its rating) the LED leads, lowest leakage, and every part meets them.
+		const free = await rank({ biasV: op.biasV, temperatureRangeC: op.temperatureRangeC, clampCurrentA: 1e-3, q: ftag });
+		expect(free.items[0].partNumber).toBe(`${ftag}-order-led`);
+		expect(free.items.every((i) => i.meetsLimits)).toBe(true);
+	});
+
+	test('a wide-gap part stored without EG raises band-gap-assumed; with EG it does not', async () => {
+		const wide = (name: string, EG?: number): TestPart => ({
+			partNumber: `${ftag}-${name}`,
+			kind: 'led',
+			material: 'wide-gap',
+			samples: good.map((s) => ({ ...s, N: 2, IS: s.IS * 1e-5, ...(EG ? { EG } : {}) }))
+		});
+		const ids = await createParts([wide('eg-missing'), wide('eg-given', 2.9)]);
+		created.push(...ids);
+		await seen(`${ftag}-eg-`, 2);
+		const r = await rank({ ...op, q: `${ftag}-eg-` });
+		const flags = new Map(r.items.map((i) => [i.partNumber, i.flags]));
+		expect(flags.get(`${ftag}-eg-missing`)).toContain('band-gap-assumed');
+		expect(flags.get(`${ftag}-eg-given`)).not.toContain('band-gap-assumed');
+		// The same words the ranking screen shows.
+		expect(FLAG_WORDS['band-gap-assumed'].long).toMatch(/band gap/);
+	});
 
 	test('an LED is light-sensitive whatever its package', async () => {
 		const [id] = await createParts([

@@ -3,6 +3,7 @@
  * shared by the page, the URL state module and the endpoints.
  */
 import { z } from 'zod';
+import { MATERIAL_DEFAULTS } from '$lib/junction/model';
 
 /** Junction kinds as the catalogue stores them (mirrors the database's list). */
 export const RANK_KINDS = ['diode', 'schottky', 'bjt-be', 'bjt-diode', 'jfet-gate', 'led'] as const;
@@ -157,7 +158,8 @@ export const RANK_FLAGS = [
 	'few-samples',
 	'forward-drop-over-limit',
 	'over-leakage-target',
-	'over-capacitance-limit'
+	'over-capacitance-limit',
+	'band-gap-assumed'
 ] as const;
 export type RankFlag = (typeof RANK_FLAGS)[number];
 
@@ -205,7 +207,7 @@ export const FLAG_WORDS: Record<RankFlag, { short: string; long: string; caution
 	},
 	'forward-drop-over-limit': {
 		short: 'drop over limit',
-		long: 'The cold-end forward drop at the clamp current exceeds your limit.',
+		long: 'The worst-case forward drop at the clamp current (the larger of the hot and cold ends) exceeds your limit.',
 		caution: true
 	},
 	'over-leakage-target': {
@@ -216,6 +218,11 @@ export const FLAG_WORDS: Record<RankFlag, { short: string; long: string; caution
 	'over-capacitance-limit': {
 		short: 'capacitance over limit',
 		long: 'The junction capacitance at the bias exceeds your limit.',
+		caution: true
+	},
+	'band-gap-assumed': {
+		short: 'band gap assumed',
+		long: `Nobody gave or measured this part's band gap, so a typical ${MATERIAL_DEFAULTS['wide-gap'].EG} eV was assumed. Its leakage at temperatures away from the measured ones is uncertain: blue, green and white LEDs and SiC parts have larger band gaps.`,
 		caution: true
 	}
 };
@@ -239,6 +246,11 @@ export type RankItem = {
 	/** Worst leakage × source resistance [V], when a source resistance is given. */
 	errorVoltageV: number | null;
 	flags: RankFlag[];
+	/**
+	 * Whether the part meets every limit the operating point states (forward drop, leakage
+	 * budget, capacitance, reverse rating). Parts meeting them all are listed first.
+	 */
+	meetsLimits: boolean;
 	/** Typical model (SPICE names), for the first `withModels` items only. */
 	model?: SpiceModel & { material?: string };
 };

@@ -1,8 +1,11 @@
 /**
  * Ranking the catalogue at a designer's operating point, and predictions for named parts.
- * The numbers come from the engine's catalogue table (src/lib/junction/rank.ts) over the
- * in-memory model cache; this module adds the catalogue's filters, the leakage budget,
- * capacitance limit, error voltage across the source resistance and reverse margin.
+ * The numbers, the limit flags and the order come from the engine's catalogue table
+ * (src/lib/junction/rank.ts) over the in-memory model cache: parts meeting every stated
+ * limit (forward drop, leakage budget, capacitance, reverse rating) first, then the rest,
+ * each group by worst-case leakage. This module adds the catalogue's filters, turns an
+ * allowed error voltage into the leakage budget, and adds the error voltage across the
+ * source resistance and the reverse margin to each item.
  *
  * Worst case: leakage at the hot end of the range (largest sample), forward drop the
  * larger of the hot and cold ends (largest sample). Material defaults (EG, XTI) are the
@@ -18,11 +21,14 @@ export type Prediction = Omit<RankItem, 'rank'> & { modelVersion: number };
 
 /** The engine's operating point (the source resistance is not a series element here). */
 export function engineOperatingPoint(op: RankOperatingPoint): OperatingPoint {
+	const budget = leakageBudget(op);
 	return {
 		biasV: op.biasV,
 		...(op.temperatureRangeC ? { temperatureRangeC: op.temperatureRangeC } : { temperatureC: op.temperatureC }),
 		...(op.clampCurrentA !== undefined ? { clampCurrentA: op.clampCurrentA } : {}),
 		...(op.maxForwardDropV !== undefined ? { maxForwardDropV: op.maxForwardDropV } : {}),
+		...(budget !== null ? { maxLeakageA: budget } : {}),
+		...(op.maxCapacitanceF !== undefined ? { maxCapacitanceF: op.maxCapacitanceF } : {}),
 		reverseMarginV: op.reverseMarginV ?? 0,
 		includeOverRating: op.includeOverRating ?? false
 	};
@@ -35,11 +41,7 @@ export function leakageBudget(op: RankOperatingPoint): number | null {
 	return null;
 }
 
-function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint, budget: number | null): Omit<RankItem, 'rank'> {
-	const flags: RankFlag[] = [...row.flags];
-	const cap = row.capacitanceF ?? null;
-	if (budget !== null && row.leakageA.worst > budget) flags.push('over-leakage-target');
-	if (op.maxCapacitanceF !== undefined && cap !== null && cap > op.maxCapacitanceF) flags.push('over-capacitance-limit');
+function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit<RankItem, 'rank'> {
 	return {
 		id: part.id,
 		partNumber: part.partNumber,
@@ -52,22 +54,30 @@ function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint, budge
 		leakageA: row.leakageA,
 		forwardDropV: row.forwardDropV ? { cold: row.forwardDropV.cold, hot: row.forwardDropV.hot, worst: row.forwardDropV.worst } : null,
 		reverseMarginV: part.ratedReverseV === null ? null : part.ratedReverseV - Math.max(0, -op.biasV),
-		capacitanceF: cap,
+		capacitanceF: row.capacitanceF ?? null,
 		errorVoltageV: op.sourceResistanceOhm !== undefined ? row.leakageA.worst * op.sourceResistanceOhm : null,
-		flags
+		// The engine's flag codes are the API's (RANK_FLAGS lists the same codes).
+		flags: row.flags as RankFlag[],
+		meetsLimits: row.meetsLimits
 	};
 }
 
 /** Whether a part passes the catalogue filters (kinds, lifecycles, packages, text). */
 export function matchesFilters(part: CachedPart, op: RankOperatingPoint): boolean {
-	if (op.kinds?.length && !op.kinds.includes(part.kind)) return false;
-	if (op.lifecycles?.length && !op.lifecycles.includes(part.lifecycle)) return false;
-	if (op.packages?.length && !op.packages.some((p) => p.toLowerCase() === part.package.toLowerCase())) return false;
-	if (op.q) {
-		const words = op.q.toLowerCase().split(/\s+/).filter(Boolean);
-		if (!words.every((w) => part.search.includes(w))) return false;
-	}
-	return true;
+	return filterOf(op)(part);
+}
+
+/** The catalogue filters as one predicate, with the request's words and packages prepared once. */
+function filterOf(op: RankOperatingPoint): (part: CachedPart) => boolean {
+	const kinds = op.kinds?.length ? new Set<string>(op.kinds) : null;
+	const lifecycles = op.lifecycles?.length ? new Set<string>(op.lifecycles) : null;
+	const packages = op.packages?.length ? new Set(op.packages.map((p) => p.toLowerCase())) : null;
+	const words = op.q ? op.q.toLowerCase().split(/\s+/).filter(Boolean) : [];
+	return (part) =>
+		(!kinds || kinds.has(part.kind)) &&
+		(!lifecycles || lifecycles.has(part.lifecycle)) &&
+		(!packages || packages.has(part.package.toLowerCase())) &&
+		words.every((w) => part.search.includes(w));
 }
 
 function hasFilters(op: RankOperatingPoint): boolean {
@@ -85,10 +95,12 @@ export function rankSnapshot(
 	let include: Uint8Array | undefined;
 	if (hasFilters(op)) {
 		include = new Uint8Array(snap.parts.length);
-		for (let p = 0; p < snap.parts.length; p++) if (matchesFilters(snap.parts[p], op)) include[p] = 1;
+		const matches = filterOf(op);
+		for (let p = 0; p < snap.parts.length; p++) if (matches(snap.parts[p])) include[p] = 1;
 	}
-	// Only the first `limit` parts are listed, so the engine selects those instead of ordering all.
-	const result: RankResult = snap.table.rank(eop, SI_2019, { limit, ...(include ? { include } : {}) });
+	// Only the first `limit` parts are listed, so the engine selects those instead of ordering all;
+	// the result is read at once below, so the table's own buffers can hold it (reuse).
+	const result: RankResult = snap.table.rank(eop, SI_2019, { limit, reuse: true, ...(include ? { include } : {}) });
 	const order = result.order;
 	const excludedOverRating = result.excluded.length;
 	const evaluated = result.ranked + excludedOverRating;
@@ -96,7 +108,7 @@ export function rankSnapshot(
 	const rows = snap.table.rows(result, eop, 0, limit);
 	const items: RankItem[] = rows.map((row, i) => {
 		const part = snap.parts[order[i]];
-		const item: RankItem = { rank: i + 1, ...toItem(part, row, op, budget) };
+		const item: RankItem = { rank: i + 1, ...toItem(part, row, op) };
 		if (i < withModels) item.model = { ...part.typical, material: part.material };
 		return item;
 	});
@@ -128,10 +140,9 @@ export async function predictParts(partIds: number[], op: RankOperatingPoint, ca
 	const eop = { ...engineOperatingPoint(op), includeOverRating: true };
 	const result = table.rank(eop);
 	const rows = table.rows(result, eop, 0, chosen.length);
-	const budget = leakageBudget(op);
 	rows.forEach((row, i) => {
 		const part = chosen[result.order[i]];
-		out.set(part.id, { ...toItem(part, row, op, budget), modelVersion: part.modelVersion });
+		out.set(part.id, { ...toItem(part, row, op), modelVersion: part.modelVersion });
 	});
 	return out;
 }

@@ -1,6 +1,6 @@
-import { and, asc, eq, gt, inArray, sql } from 'drizzle-orm';
+import { and, asc, eq, gt, inArray, isNull, sql } from 'drizzle-orm';
 import { db, type DbOrTx } from './db';
-import { sessions, userRoles, users } from './db/schema';
+import { apiTokens, sessions, userRoles, users } from './db/schema';
 import { recordAudit } from './audit';
 import { enqueueMail } from './mail';
 import { isRole, type Role } from '$lib/permissions';
@@ -49,6 +49,17 @@ export async function findBySessionToken(token: string): Promise<Person | null> 
 		.innerJoin(users, eq(users.id, sessions.userId))
 		.where(and(eq(sessions.sessionToken, token), gt(sessions.expires, new Date())));
 	return row ? toPerson(row, (row.roles ?? []).filter(isRole)) : null;
+}
+
+/** The owner of an unrevoked API token with this SHA-256, with the token's id and last use. */
+export async function findByTokenHash(digest: string) {
+	const [row] = await db
+		.select({ ...personColumns, tokenId: apiTokens.id, tokenHash: apiTokens.tokenHash, lastUsedAt: apiTokens.lastUsedAt })
+		.from(apiTokens)
+		.innerJoin(users, eq(users.id, apiTokens.userId))
+		.where(and(eq(apiTokens.tokenHash, digest), isNull(apiTokens.revokedAt)));
+	if (!row) return null;
+	return { person: toPerson(row, (row.roles ?? []).filter(isRole)), tokenId: row.tokenId, tokenHash: row.tokenHash, lastUsedAt: row.lastUsedAt };
 }
 
 export async function list(): Promise<Person[]> {

@@ -1,5 +1,5 @@
 import { createHash, randomBytes, timingSafeEqual } from 'node:crypto';
-import { and, desc, eq, isNull, lt, or } from 'drizzle-orm';
+import { and, desc, eq, isNull } from 'drizzle-orm';
 import { db } from './db';
 import { apiTokens } from './db/schema';
 import { recordAudit } from './audit';
@@ -55,14 +55,13 @@ export async function revoke(userId: string, tokenId: number): Promise<boolean> 
 export async function resolve(token: string): Promise<people.Person | null> {
 	if (!token.startsWith(PREFIX) || token.length > 200) return null;
 	const digest = hash(token);
-	const [row] = await db.select().from(apiTokens).where(eq(apiTokens.tokenHash, digest));
+	const found = await people.findByTokenHash(digest);
 	// The lookup is by hash, so timing reveals nothing of the secret; compare anyway.
-	if (!row || row.revokedAt || !timingSafeEqual(Buffer.from(row.tokenHash), Buffer.from(digest))) return null;
-	// Recording last use at most once a minute keeps reads from turning into writes.
-	const now = new Date();
-	await db
-		.update(apiTokens)
-		.set({ lastUsedAt: now })
-		.where(and(eq(apiTokens.id, row.id), or(isNull(apiTokens.lastUsedAt), lt(apiTokens.lastUsedAt, new Date(now.getTime() - 60_000)))));
-	return people.findById(row.userId);
+	if (!found || !timingSafeEqual(Buffer.from(found.tokenHash), Buffer.from(digest))) return null;
+	// Last use is recorded at most once a minute, so reads stay reads.
+	const now = Date.now();
+	if (!found.lastUsedAt || now - found.lastUsedAt.getTime() > 60_000) {
+		await db.update(apiTokens).set({ lastUsedAt: new Date(now) }).where(eq(apiTokens.id, found.tokenId));
+	}
+	return found.person;
 }

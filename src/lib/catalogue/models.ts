@@ -1,6 +1,6 @@
 // Conversions between the catalogue's stored models (SPICE names, optional keys) and the
 // engine's complete models, plus the flags every screen shows in words.
-import { createModel, currentAtBias, scaleModel, type JunctionModel } from '$lib/junction';
+import { createModel, currentAtBias, FLAG_WORDS, scaleModel, type JunctionModel } from '$lib/junction';
 import type { StoredModel } from '$lib/server/db/schema/catalogue';
 import type { JunctionKind, Material } from './vocabulary';
 
@@ -75,24 +75,15 @@ export function partFlags(p: PartFacts): { code: string; text: string }[] {
 			text: 'The model comes from a card or datasheet, not from our bench: nothing here has been measured.'
 		});
 	if (p.hasModel && !p.reverseMeasured)
-		flags.push({
-			code: 'reverse-not-measured',
-			text: 'Reverse leakage was never measured; leakage figures are only the ideal-diode floor (IS) and real parts may leak far more.'
-		});
+		flags.push({ code: 'reverse-not-measured', text: FLAG_WORDS['reverse-not-measured'].long });
 	if (p.isMeasured && p.sampleCount < 3)
 		flags.push({
 			code: 'few-samples',
 			text: `Only ${p.sampleCount} sample${p.sampleCount === 1 ? '' : 's'} measured; fewer than three says little about part-to-part spread.`
 		});
 	if (p.material === 'metal-semiconductor' || p.kind === 'schottky')
-		flags.push({
-			code: 'metal-semiconductor',
-			text: 'Metal–semiconductor junction: the Shockley model is only an empirical fit here, and leakage climbs with reverse bias.'
-		});
+		flags.push({ code: 'metal-semiconductor', text: FLAG_WORDS['metal-semiconductor'].long });
 	if (p.admitsLight || p.kind === 'led')
-		flags.push({
-			code: 'light',
-			text: 'Glass or clear package, or an LED: ambient light makes photocurrent that can exceed the dark leakage. Shield it.'
-		});
+		flags.push({ code: 'light-sensitive', text: FLAG_WORDS['light-sensitive'].long });
 	return flags;
 }

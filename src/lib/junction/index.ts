@@ -45,6 +45,7 @@ export { ModelTable } from './model-table';
 export {
 	CatalogueTable,
 	explainFlag,
+	FLAG_WORDS,
 	flagsFromBits,
 	temperatureEnds,
 	FLAG_CODES,

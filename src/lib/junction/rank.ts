@@ -22,7 +22,7 @@
  * order is decided; the server's API lists it as is.
  */
 import { SI_2019, type PhysicalConstants } from './constants';
-import type { JunctionModel } from './model';
+import { MATERIAL_DEFAULTS, type JunctionModel } from './model';
 import { ModelTable } from './model-table';
 import type { JunctionKind } from './names';
 
@@ -87,22 +87,71 @@ export const FLAG_CODES = [
 ] as const;
 export type FlagCode = (typeof FLAG_CODES)[number];
 
-const FLAG_TEXT: Record<FlagCode, string> = {
-	'current-extrapolated':
-		'The predicted current is more than ten times below the lowest current ever measured on this part, so it is an extrapolation of the model.',
-	'temperature-extrapolated': 'The operating temperature is more than 25 K away from every temperature this part was measured at.',
-	'over-reverse-rating': 'The reverse bias exceeds the rated reverse voltage less the requested margin.',
-	'reverse-not-measured':
-		'Reverse leakage was never measured on this part; the figure is only the ideal diode floor (IS) and real leakage may be far higher.',
-	'metal-semiconductor': 'Metal–semiconductor (Schottky) junction: the Shockley model is empirical here and leakage rises steeply with reverse bias.',
-	'light-sensitive': 'Clear or glass package, or an LED: ambient light generates photocurrent that can swamp the leakage.',
-	'poor-fit': 'The model fits the measured sweep poorly (large residuals), so predictions are less certain.',
-	'few-samples': 'Fewer than three samples were measured, so part-to-part spread is unknown.',
-	'forward-drop-over-limit': 'The worst-case forward drop at the clamp current exceeds the requested limit.',
-	'over-leakage-target': 'The worst-case leakage exceeds the requested leakage budget.',
-	'over-capacitance-limit': 'The junction capacitance at the bias exceeds the requested limit.',
-	'band-gap-assumed':
-		'The band gap (EG) of this wide-gap part was neither given nor fitted; a typical value was assumed, so the leakage at other temperatures is uncertain.'
+/**
+ * Each flag in plain words: a short label for chips, a sentence for the explanation, and
+ * whether it is a caution (shown in amber). The one source of these texts for every screen.
+ */
+export const FLAG_WORDS: Record<FlagCode, { short: string; long: string; caution: boolean }> = {
+	'current-extrapolated': {
+		short: 'below measured current',
+		long: 'The predicted current is over a decade below the lowest current measured on this part: the model is extrapolated.',
+		caution: true
+	},
+	'temperature-extrapolated': {
+		short: 'outside measured temperatures',
+		long: 'An end of the temperature range lies more than 25 K from every temperature this part was measured at.',
+		caution: true
+	},
+	'over-reverse-rating': {
+		short: 'reverse rating exceeded',
+		long: 'The reverse bias (plus the margin you asked for) exceeds the rated reverse voltage.',
+		caution: true
+	},
+	'reverse-not-measured': {
+		short: 'leakage never measured',
+		long: 'Reverse leakage was never measured; only the Shockley floor is known and real leakage is higher.',
+		caution: true
+	},
+	'metal-semiconductor': {
+		short: 'metal–semiconductor',
+		long: 'Metal–semiconductor junction: the Shockley model is empirical here.',
+		caution: false
+	},
+	'light-sensitive': {
+		short: 'light makes current',
+		long: 'Glass or clear package, or an LED: ambient light makes a photocurrent that can exceed the dark leakage. Shield it.',
+		caution: true
+	},
+	'poor-fit': {
+		short: 'poor fit',
+		long: 'The model fits the measured sweeps poorly (RMS residual over 2 mV), so predictions are less certain.',
+		caution: true
+	},
+	'few-samples': {
+		short: 'under 3 samples',
+		long: 'Fewer than three samples were measured, so the part-to-part spread is unknown.',
+		caution: false
+	},
+	'forward-drop-over-limit': {
+		short: 'drop over limit',
+		long: 'The worst-case forward drop at the clamp current (the larger of the hot and cold ends) exceeds your limit.',
+		caution: true
+	},
+	'over-leakage-target': {
+		short: 'over leakage budget',
+		long: 'The worst-case leakage exceeds the allowed leakage (or error voltage across the source resistance).',
+		caution: true
+	},
+	'over-capacitance-limit': {
+		short: 'capacitance over limit',
+		long: 'The junction capacitance at the bias exceeds your limit.',
+		caution: true
+	},
+	'band-gap-assumed': {
+		short: 'band gap assumed',
+		long: `Nobody gave or measured this part's band gap, so a typical ${MATERIAL_DEFAULTS['wide-gap'].EG} eV was assumed. Its leakage at temperatures away from the measured ones is uncertain: blue, green and white LEDs and SiC parts have larger band gaps.`,
+		caution: true
+	}
 };
 
 /**
@@ -110,9 +159,9 @@ const FLAG_TEXT: Record<FlagCode, string> = {
  * @throws RangeError for an unknown code.
  */
 export function explainFlag(code: FlagCode): string {
-	const t = FLAG_TEXT[code];
+	const t = FLAG_WORDS[code];
 	if (!t) throw new RangeError(`unknown flag code '${String(code)}'`);
-	return t;
+	return t.long;
 }
 
 /** RMS fit residual above which a fit counts as poor [V] (2 mV, common practice for small-signal fits). */

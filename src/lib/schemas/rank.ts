@@ -3,29 +3,14 @@
  * shared by the page, the URL state module and the endpoints.
  */
 import { z } from 'zod';
-import { MATERIAL_DEFAULTS } from '$lib/junction/model';
 
-/** Junction kinds as the catalogue stores them (mirrors the database's list). */
-export const RANK_KINDS = ['diode', 'schottky', 'bjt-be', 'bjt-diode', 'jfet-gate', 'led'] as const;
-export type RankKind = (typeof RANK_KINDS)[number];
-
-export const KIND_LABEL: Record<RankKind, string> = {
-	diode: 'PN diode',
-	schottky: 'Schottky',
-	'bjt-be': 'BJT base–emitter',
-	'bjt-diode': 'diode-connected BJT',
-	'jfet-gate': 'JFET gate',
-	led: 'LED'
-};
-
-/** Lifecycles as the catalogue stores them. */
-export const RANK_LIFECYCLES = ['in-use', 'not-for-new', 'retired'] as const;
-export type RankLifecycle = (typeof RANK_LIFECYCLES)[number];
-export const LIFECYCLE_LABEL: Record<RankLifecycle, string> = {
-	'in-use': 'fine for new designs',
-	'not-for-new': 'existing boards only',
-	retired: 'retired'
-};
+// Kinds and lifecycles with their labels: the catalogue's vocabulary, one for every screen.
+import { JUNCTION_KINDS, KIND_LABEL, LIFECYCLES, LIFECYCLE_LABEL, type JunctionKind, type Lifecycle } from '$lib/catalogue/vocabulary';
+export const RANK_KINDS = JUNCTION_KINDS;
+export const RANK_LIFECYCLES = LIFECYCLES;
+export { KIND_LABEL, LIFECYCLE_LABEL };
+export type RankKind = JunctionKind;
+export type RankLifecycle = Lifecycle;
 
 export const MAX_RANK_LIMIT = 1000;
 /** Absolute zero in °C; no temperature may be at or below it. */
@@ -146,86 +131,10 @@ export const predictRequestSchema = z
 	});
 export type PredictRequest = z.infer<typeof predictRequestSchema>;
 
-/** Flag codes the ranking reports (the engine's plus the screen's own limits). */
-export const RANK_FLAGS = [
-	'current-extrapolated',
-	'temperature-extrapolated',
-	'over-reverse-rating',
-	'reverse-not-measured',
-	'metal-semiconductor',
-	'light-sensitive',
-	'poor-fit',
-	'few-samples',
-	'forward-drop-over-limit',
-	'over-leakage-target',
-	'over-capacitance-limit',
-	'band-gap-assumed'
-] as const;
-export type RankFlag = (typeof RANK_FLAGS)[number];
-
-/** Short and long plain-words text for each flag. */
-export const FLAG_WORDS: Record<RankFlag, { short: string; long: string; caution: boolean }> = {
-	'current-extrapolated': {
-		short: 'below measured current',
-		long: 'The predicted current is over a decade below the lowest current measured on this part: the model is extrapolated.',
-		caution: true
-	},
-	'temperature-extrapolated': {
-		short: 'outside measured temperatures',
-		long: 'An end of the temperature range lies more than 25 K from every temperature this part was measured at.',
-		caution: true
-	},
-	'over-reverse-rating': {
-		short: 'reverse rating exceeded',
-		long: 'The reverse bias (plus the margin you asked for) exceeds the rated reverse voltage.',
-		caution: true
-	},
-	'reverse-not-measured': {
-		short: 'leakage never measured',
-		long: 'Reverse leakage was never measured; only the Shockley floor is known and real leakage is higher.',
-		caution: true
-	},
-	'metal-semiconductor': {
-		short: 'metal–semiconductor',
-		long: 'Metal–semiconductor junction: the Shockley model is empirical here.',
-		caution: false
-	},
-	'light-sensitive': {
-		short: 'light makes current',
-		long: 'Glass or clear package, or an LED: ambient light makes a photocurrent that can exceed the dark leakage. Shield it.',
-		caution: true
-	},
-	'poor-fit': {
-		short: 'poor fit',
-		long: 'The model fits the measured sweeps poorly (RMS residual over 2 mV), so predictions are less certain.',
-		caution: true
-	},
-	'few-samples': {
-		short: 'under 3 samples',
-		long: 'Fewer than three samples were measured, so the part-to-part spread is unknown.',
-		caution: false
-	},
-	'forward-drop-over-limit': {
-		short: 'drop over limit',
-		long: 'The worst-case forward drop at the clamp current (the larger of the hot and cold ends) exceeds your limit.',
-		caution: true
-	},
-	'over-leakage-target': {
-		short: 'over leakage budget',
-		long: 'The worst-case leakage exceeds the allowed leakage (or error voltage across the source resistance).',
-		caution: true
-	},
-	'over-capacitance-limit': {
-		short: 'capacitance over limit',
-		long: 'The junction capacitance at the bias exceeds your limit.',
-		caution: true
-	},
-	'band-gap-assumed': {
-		short: 'band gap assumed',
-		long: `Nobody gave or measured this part's band gap, so a typical ${MATERIAL_DEFAULTS['wide-gap'].EG} eV was assumed. Its leakage at temperatures away from the measured ones is uncertain: blue, green and white LEDs and SiC parts have larger band gaps.`,
-		caution: true
-	}
-};
+/** Flag codes the ranking reports, and their words: the engine's. */
+export { FLAG_CODES as RANK_FLAGS, FLAG_WORDS } from '$lib/junction/rank';
+import type { FlagCode } from '$lib/junction/rank';
+export type RankFlag = FlagCode;
 
 /** One ranked part as the API returns it. */
 export type RankItem = {

@@ -76,30 +76,12 @@ function domainFromEngine(e: unknown): never {
 	throw e;
 }
 
-/** Leaves out the points inside [fromV, toV] (a librarian's correction, e.g. a heating tail). */
-function excludeVoltages(sweep: ParsedSweep, range: [number, number]): ParsedSweep {
-	const [lo, hi] = range;
-	return {
-		...sweep,
-		runs: sweep.runs.map((r) => {
-			const keep: number[] = [];
-			for (let k = 0; k < r.voltageV.length; k++) if (r.voltageV[k] < lo || r.voltageV[k] > hi) keep.push(k);
-			return {
-				...r,
-				voltageV: Float64Array.from(keep, (k) => r.voltageV[k]),
-				currentA: Float64Array.from(keep, (k) => r.currentA[k]),
-				count: Int32Array.from(keep, (k) => r.count[k]),
-				points: keep.reduce((a, k) => a + r.count[k], 0)
-			};
-		})
-	};
-}
-
 /** The engine's fit of a parsed single-temperature sweep, in the stored shape. */
 export function fitParsed(sweep: ParsedSweep, ctx: FitContext, excludedV: [number, number] | null = null): { fit: StoredFit; result: FitResult } {
 	let result: FitResult;
 	try {
-		result = fitSweep(excludedV ? excludeVoltages(sweep, excludedV) : sweep, {
+		result = fitSweep(sweep, {
+			...(excludedV ? { excludeV: excludedV } : {}),
 			material: engineMaterial(ctx.material),
 			EG: egFor(ctx.material, ctx.given)
 		});

@@ -5,6 +5,7 @@ import { DEFAULT_MATERIAL, type JunctionKind, type Material } from '$lib/catalog
 import { partFlags, toEngine } from '$lib/catalogue/models';
 import type { PartInput, PartPatch } from '$lib/schemas/catalogue';
 import { DomainError } from './api';
+import { fail } from './http-error';
 import { recordAudit } from './audit';
 import { db, type DbOrTx } from './db';
 import { fits, partModels, parts, runs, samples, type StoredModel } from './db/schema';
@@ -177,6 +178,13 @@ export async function detail(id: number) {
 		.where(eq(runs.partId, id))
 		.orderBy(asc(runs.id));
 	return { part, model: model ?? null, samples: sampleRows, runs: runRows };
+}
+
+/** A part's detail, or a 404 (page or JSON, through the caller's error handling). */
+export async function detailOr404(id: number) {
+	const d = await detail(id);
+	if (!d) fail(404, `No part ${id} in the catalogue.`);
+	return d;
 }
 
 /** The API's representation of a part (SI units, °C). */

@@ -1,4 +1,3 @@
-import { error } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
 import * as catalogue from '$lib/server/catalogue';
 import { currentMagnitude } from '$lib/catalogue/models';
@@ -9,8 +8,7 @@ const TEMPS = Array.from({ length: 34 }, (_, k) => -40 + 5 * k); // −40 … +1
 export const load: PageServerLoad = async (event) => {
 	requirePermission(event, 'catalogue:read');
 	const id = Number(event.params.id);
-	const d = await catalogue.detail(id);
-	if (!d) error(404, { message: `No part ${id} in the catalogue.`, code: 'not_found' });
+	const d = await catalogue.detailOr404(id);
 	const { part, model } = d;
 	const unitOf = new Map(d.samples.map((s) => [s.id, s.unit]));
 	// Two reverse biases worth comparing: a small one (as across a guarded input) and half the rating.

@@ -1,4 +1,4 @@
-import { error, fail, redirect } from '@sveltejs/kit';
+import { fail, redirect } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
 import { DomainError } from '$lib/server/api';
 import * as catalogue from '$lib/server/catalogue';
@@ -7,8 +7,7 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	requirePermission(event, 'catalogue:write');
-	const d = await catalogue.detail(Number(event.params.id));
-	if (!d) error(404, { message: 'No such part.', code: 'not_found' });
+	const d = await catalogue.detailOr404(Number(event.params.id));
 	const p = d.part;
 	return {
 		part: { id: p.id, partNumber: p.partNumber, lifecycle: p.lifecycle, givenModel: p.givenModel, givenModelSource: p.givenModelSource, measured: d.model?.isMeasured ?? false },

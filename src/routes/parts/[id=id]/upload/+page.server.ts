@@ -1,4 +1,3 @@
-import { error } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
 import * as catalogue from '$lib/server/catalogue';
 import { UPLOAD_LIMIT_BYTES } from '$lib/server/runs';
@@ -6,8 +5,7 @@ import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	requirePermission(event, 'catalogue:write');
-	const d = await catalogue.detail(Number(event.params.id));
-	if (!d) error(404, { message: 'No such part.', code: 'not_found' });
+	const d = await catalogue.detailOr404(Number(event.params.id));
 	const p = d.part;
 	return {
 		part: { id: p.id, partNumber: p.partNumber, maker: p.maker, kind: p.kind, material: p.material, ratedReverseV: p.ratedReverseV, ratedForwardA: p.ratedForwardA, ratedJunctionC: p.ratedJunctionC },

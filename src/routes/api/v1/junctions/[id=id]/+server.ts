@@ -1,12 +1,11 @@
 import { json } from '@sveltejs/kit';
-import { DomainError, endpoint, readJson } from '$lib/server/api';
+import { endpoint, readJson } from '$lib/server/api';
 import { requirePermission } from '$lib/server/guards';
 import * as catalogue from '$lib/server/catalogue';
 import { partPatch } from '$lib/schemas/catalogue';
 
 async function full(id: number) {
-	const d = await catalogue.detail(id);
-	if (!d) throw new DomainError(404, `No part ${id}.`);
+	const d = await catalogue.detailOr404(id);
 	const unitOf = new Map(d.samples.map((s) => [s.id, s.unit]));
 	return {
 		...catalogue.present(d.part, d.model),

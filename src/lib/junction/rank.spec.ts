@@ -329,6 +329,21 @@ describe('ordering by leakage', () => {
 		}
 	});
 
+	it('takes the best of a long run of ties at the cut, by typical leakage then index', () => {
+		const r = mulberry32(5);
+		const n = 5000;
+		// Most parts tie at one worst leakage (identical models, or none evaluable); a few lie below.
+		const worst = Float64Array.from({ length: n }, (_, i) => (i % 97 === 0 ? 1e-15 * (1 + (i % 7)) : 0.5e-9));
+		const typical = Float64Array.from({ length: n }, (_, i) => (i % 3 === 0 ? 0.25e-9 : (1e-10 * Math.floor(r() * 4))));
+		const idx = Int32Array.from({ length: n }, (_, i) => i);
+		const want = reference([...idx], worst, typical);
+		for (const limit of [1, 3, 50, 51, 52, 60, 200, 1300]) expect(Array.from(orderByLeakage(idx, worst, typical, limit))).toEqual(want.slice(0, limit));
+		// All tied, typical NaN: index order.
+		const zero = new Float64Array(n);
+		const nan = new Float64Array(n).fill(NaN);
+		expect(Array.from(orderByLeakage(idx, zero, nan, 50))).toEqual(Array.from({ length: 50 }, (_, i) => i));
+	});
+
 	it('puts infinite and NaN leakage last (NaN after Infinity), ties by typical then index', () => {
 		const worst = Float64Array.of(NaN, Infinity, 1e-12, Infinity, Number.MAX_VALUE, NaN, 0);
 		const typical = Float64Array.of(1, 2, 1e-13, 1, 5, 0, 0);

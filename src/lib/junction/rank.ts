@@ -579,11 +579,13 @@ function compareNumbers(x: number, y: number): number {
  *
  * Method: each part's worst leakage (≥ 0, so its IEEE-754 bit pattern orders like its
  * value) has the low ⌈log₂ m⌉ mantissa bits replaced by its position in `parts`; these
- * packed doubles sort natively (or, with a limit, are selected by Hoare's FIND, C. A. R.
- * Hoare, Comm. ACM 4 (1961) 321, then sorted). Truncating the low bits keeps the order
- * between different truncated values, so only runs of equal truncated value can be out
- * of the exact order; each such run is re-sorted with the exact comparison. With a limit,
- * the run straddling the cut is taken whole before cutting.
+ * packed doubles sort natively (or, with a limit, the smallest `limit` are selected by
+ * Hoare's FIND, C. A. R. Hoare, Comm. ACM 4 (1961) 321, then sorted). Truncating the low
+ * bits keeps the order between different truncated values, so only runs of equal truncated
+ * value can be out of the exact order; each such run is re-sorted with the exact comparison.
+ * With a limit, the run at the cut may continue among the parts not selected: its members
+ * are gathered and only the best of them that fit are selected exactly (a bounded heap),
+ * so a long run of ties costs one comparison per member rather than a sort.
  * @param parts part indices in ascending order
  * @param scratch optional work array of at least parts.length entries (else one is allocated)
  */
@@ -608,37 +610,70 @@ export function orderByLeakage(
 		const at = 2 * j + LOW_WORD;
 		words[at] = (((words[at] >>> bits) << bits) | j) >>> 0;
 	}
-	let sorted: Float64Array;
-	if (take < m) {
-		selectSmallest(keys, take - 1);
-		const top = keys[take - 1];
-		const topWords = new Uint32Array(Float64Array.of(top).buffer);
-		const hi = topWords[1 - LOW_WORD];
-		const lo = topWords[LOW_WORD] >>> bits;
-		let extra = 0;
-		for (let j = take; j < m; j++) if (words[2 * j + 1 - LOW_WORD] === hi && words[2 * j + LOW_WORD] >>> bits === lo) extra++;
-		sorted = new Float64Array(take + extra);
-		sorted.set(keys.subarray(0, take));
-		let e = take;
-		for (let j = take; j < m; j++)
-			if (words[2 * j + 1 - LOW_WORD] === hi && words[2 * j + LOW_WORD] >>> bits === lo) sorted[e++] = keys[j];
-	} else sorted = keys;
-	sorted.sort();
-	const sw = new Uint32Array(sorted.buffer, sorted.byteOffset, 2 * sorted.length);
+	if (take < m) selectSmallest(keys, take - 1);
+	keys.subarray(0, take).sort();
 	const mask = 2 ** bits - 1;
-	const out = new Int32Array(sorted.length);
-	for (let i = 0; i < sorted.length; i++) out[i] = parts[sw[2 * i + LOW_WORD] & mask];
+	const out = new Int32Array(take);
+	for (let i = 0; i < take; i++) out[i] = parts[words[2 * i + LOW_WORD] & mask];
 	// Re-sort runs of equal truncated worst leakage exactly.
 	const cmp = (a: number, b: number) => compareNumbers(worst[a], worst[b]) || compareNumbers(typical[a], typical[b]) || a - b;
-	for (let i = 0; i < sorted.length; ) {
-		const hi = sw[2 * i + 1 - LOW_WORD];
-		const lo = sw[2 * i + LOW_WORD] >>> bits;
+	for (let i = 0; i < take; ) {
+		const hi = words[2 * i + 1 - LOW_WORD];
+		const lo = words[2 * i + LOW_WORD] >>> bits;
 		let e = i + 1;
-		while (e < sorted.length && sw[2 * e + 1 - LOW_WORD] === hi && sw[2 * e + LOW_WORD] >>> bits === lo) e++;
+		while (e < take && words[2 * e + 1 - LOW_WORD] === hi && words[2 * e + LOW_WORD] >>> bits === lo) e++;
+		if (e === take && take < m) {
+			// The run at the cut: its members among the parts not selected compete for its places.
+			let extra = 0;
+			for (let j = take; j < m; j++) if (words[2 * j + 1 - LOW_WORD] === hi && words[2 * j + LOW_WORD] >>> bits === lo) extra++;
+			if (extra > 0) {
+				const run = new Int32Array(e - i + extra);
+				run.set(out.subarray(i, e));
+				let r = e - i;
+				for (let j = take; j < m; j++)
+					if (words[2 * j + 1 - LOW_WORD] === hi && words[2 * j + LOW_WORD] >>> bits === lo) run[r++] = parts[words[2 * j + LOW_WORD] & mask];
+				out.set(smallestSorted(run, take - i, cmp), i);
+				break;
+			}
+		}
 		if (e - i > 1) out.subarray(i, e).sort(cmp);
 		i = e;
 	}
-	return out.length > take ? out.slice(0, take) : out;
+	return out;
+}
+
+/**
+ * The `k` smallest entries of `a` under `cmp` (a total order), sorted: a sort when `a` is
+ * short, else a bounded max-heap of `k` entries (one comparison per entry that does not
+ * enter it). Reorders `a`.
+ */
+function smallestSorted(a: Int32Array, k: number, cmp: (x: number, y: number) => number): Int32Array {
+	if (a.length <= 4 * k) return a.sort(cmp).subarray(0, k);
+	const heap = a.subarray(0, k);
+	for (let i = (k >> 1) - 1; i >= 0; i--) siftDown(heap, i, cmp);
+	for (let j = k; j < a.length; j++) {
+		const x = a[j];
+		if (cmp(x, heap[0]) < 0) {
+			heap[0] = x;
+			siftDown(heap, 0, cmp);
+		}
+	}
+	return heap.sort(cmp);
+}
+
+/** Restores the max-heap order of `h` (under `cmp`) below position `i`. */
+function siftDown(h: Int32Array, i: number, cmp: (x: number, y: number) => number): void {
+	const n = h.length;
+	const x = h[i];
+	for (;;) {
+		let c = 2 * i + 1;
+		if (c >= n) break;
+		if (c + 1 < n && cmp(h[c + 1], h[c]) > 0) c++;
+		if (cmp(h[c], x) <= 0) break;
+		h[i] = h[c];
+		i = c;
+	}
+	h[i] = x;
 }
 
 /**

@@ -269,15 +269,18 @@ describe('rank core', () => {
 		const ops = Array.from({ length: 12 }, (_, k) => ({
 			biasV: k % 2 ? -7 : -2,
 			temperatureRangeC: [-40 + 5 * k, 25 + 10 * k] as [number, number],
-			clampCurrentA: 1e-3,
+			clampCurrentA: k % 3 ? 1e-3 : 1e-2,
+			maxForwardDropV: 0.7,
 			maxCapacitanceF: 1e-12
 		}));
 		const first = ops.map((op) => table.rank(op));
+		// A caller writing into a result does not change the kept forward drops.
+		table.rank(ops[0]).dropWorstV.fill(-1);
 		// Repeat (kept scaling hits), after more temperatures than the table keeps (evictions), and with CODATA 2014.
 		for (const [k, op] of ops.entries()) {
 			const again = table.rank(op);
 			const fresh = new CatalogueTable(recs).rank(op);
-			for (const col of ['worstA', 'typicalA', 'dropWorstV', 'dropColdV', 'capacitanceF'] as const) {
+			for (const col of ['worstA', 'typicalA', 'dropWorstV', 'dropHotV', 'dropColdV', 'capacitanceF', 'flags'] as const) {
 				expect(Array.from(again[col])).toEqual(Array.from(fresh[col]));
 				expect(Array.from(first[k][col])).toEqual(Array.from(fresh[col]));
 			}
@@ -285,6 +288,13 @@ describe('rank core', () => {
 			const freshCodata = new CatalogueTable(recs).rank(op, CODATA_2014);
 			expect(Array.from(codata.worstA)).toEqual(Array.from(freshCodata.worstA));
 			expect(Array.from(codata.worstA)).not.toEqual(Array.from(fresh.worstA));
+			expect(Array.from(codata.dropWorstV)).toEqual(Array.from(freshCodata.dropWorstV));
+			expect(Array.from(codata.dropWorstV)).not.toEqual(Array.from(fresh.dropWorstV));
+		}
+		// Same temperatures, another clamp current: drops at that current.
+		for (const clampCurrentA of [1e-4, 1e-3, 1e-1]) {
+			const op = { ...ops[4], clampCurrentA };
+			expect(Array.from(table.rank(op).dropWorstV)).toEqual(Array.from(new CatalogueTable(recs).rank(op).dropWorstV));
 		}
 		// And the kept values are the scalar engine's.
 		const op = ops[5];

@@ -243,8 +243,8 @@ function median(a: Float64Array, n: number): number {
  * In-memory catalogue built from plain records. Build once at start-up, then call
  * `refresh(records)` whenever parts change. `rank(op)` is synchronous and leaves the records
  * alone; it keeps work arrays, per-temperature caches (scaled parameters, the
- * temperature-extrapolation test) and, with `reuse`, its result buffers in the table, all
- * dropped by `refresh`.
+ * temperature-extrapolation test, the bias-independent forward drops per clamp current)
+ * and, with `reuse`, its result buffers in the table, all dropped by `refresh`.
  */
 export class CatalogueTable {
 	private parts: PartRecord[] = [];
@@ -268,6 +268,7 @@ export class CatalogueTable {
 	private resultFlags = new Uint32Array(0);
 	private scratchKeys = new Float64Array(0);
 	private farCache = new Map<number, Uint8Array>();
+	private dropCache: DropColumns[] = [];
 
 	constructor(records: readonly PartRecord[] = []) {
 		this.refresh(records);
@@ -337,6 +338,7 @@ export class CatalogueTable {
 		this.scratchPass = new Int32Array(n);
 		this.scratchKeys = new Float64Array(n);
 		this.farCache = new Map();
+		this.dropCache = [];
 		this.resultColumns = new Float64Array(0);
 		this.resultFlags = new Uint32Array(0);
 		this.scratchFail = new Int32Array(n);
@@ -386,13 +388,10 @@ export class CatalogueTable {
 		if (op.clampCurrentA === undefined) columns.fill(NaN, 2 * n, 5 * n);
 		columns.fill(NaN, 5 * n);
 		const flags = options.reuse ? this.resultFlags : new Uint32Array(n);
-		let hotV: Float64Array | undefined;
-		let coldV: Float64Array | undefined;
-		if (op.clampCurrentA !== undefined) {
-			hotV = this.models.forwardVoltages(op.clampCurrentA, hot, this.scratchDrop, constants);
-			coldV = cold === hot ? hotV : this.models.forwardVoltages(op.clampCurrentA, cold, this.scratchCold, constants);
-		}
-		this.partLoop(op, cold, hot, hotI, hotV, coldV, include, constants, typicalA, worstA, dropHotV, dropColdV, dropWorstV, capacitanceF, flags);
+		// Forward drops do not depend on the bias: kept per clamp current and temperature ends.
+		const drops = op.clampCurrentA !== undefined ? this.dropsAt(op.clampCurrentA, cold, hot, constants) : undefined;
+		if (drops) columns.set(drops, 2 * n);
+		this.partLoop(op, cold, hot, hotI, include, constants, typicalA, worstA, dropWorstV, capacitanceF, flags);
 		const passing = this.counts[0];
 		const failing = this.counts[1];
 		const excluded = this.counts[2] > 0 ? overRating(flags, include, this.counts[2]) : new Int32Array(0);
@@ -424,6 +423,48 @@ export class CatalogueTable {
 	}
 
 	/**
+	 * Per part, the forward drop at a current [A] at the hot and cold ends (median over
+	 * samples) and the worst (largest over samples and both ends), as columns [hot | cold |
+	 * worst] of the part count each; kept for the last DROP_CACHE_SIZE current and
+	 * temperature pairs asked for (least recently used dropped), like the scaled parameters.
+	 */
+	private dropsAt(currentA: number, cold: number, hot: number, constants: PhysicalConstants): Float64Array {
+		const cache = this.dropCache;
+		for (let i = 0; i < cache.length; i++) {
+			const d = cache[i];
+			if (d.currentA === currentA && d.cold === cold && d.hot === hot && d.constants === constants) {
+				if (i > 0) {
+					cache.splice(i, 1);
+					cache.unshift(d);
+				}
+				return d.columns;
+			}
+		}
+		const n = this.parts.length;
+		const hotV = this.models.forwardVoltages(currentA, hot, this.scratchDrop, constants);
+		const coldV = cold === hot ? hotV : this.models.forwardVoltages(currentA, cold, this.scratchCold, constants);
+		const columns = new Float64Array(3 * n);
+		const sort = this.scratchSort;
+		for (let p = 0; p < n; p++) {
+			const s0 = this.start[p];
+			const c = this.count[p];
+			let cw = 0;
+			for (let k = 0; k < c; k++) {
+				sort[k] = hotV[s0 + k];
+				if (hotV[s0 + k] > cw) cw = hotV[s0 + k];
+				if (coldV[s0 + k] > cw) cw = coldV[s0 + k];
+			}
+			columns[p] = median(sort, c);
+			for (let k = 0; k < c; k++) sort[k] = coldV[s0 + k];
+			columns[n + p] = median(sort, c);
+			columns[2 * n + p] = cw;
+		}
+		cache.unshift({ currentA, cold, hot, constants, columns });
+		if (cache.length > DROP_CACHE_SIZE) cache.pop();
+		return columns;
+	}
+
+	/**
 	 * The per-part pass of `rank` (its own function so the engine optimises it whole):
 	 * statistics over samples, flags, and the split into parts meeting every limit (`pass`)
 	 * and the rest (`fail`), both in index order; `counts` gets [passing, failing, excluded].
@@ -433,14 +474,10 @@ export class CatalogueTable {
 		cold: number,
 		hot: number,
 		hotI: Float64Array,
-		hotV: Float64Array | undefined,
-		coldV: Float64Array | undefined,
 		include: Uint8Array | undefined,
 		constants: PhysicalConstants,
 		typicalA: Float64Array,
 		worstA: Float64Array,
-		dropHotV: Float64Array,
-		dropColdV: Float64Array,
 		dropWorstV: Float64Array,
 		capacitanceF: Float64Array,
 		flags: Uint32Array
@@ -474,19 +511,8 @@ export class CatalogueTable {
 			if (typical < this.minMeasured[p] / 10) f |= BIT_CURRENT_EXTRAPOLATED;
 			if (farCold[p] | farHot[p]) f |= BIT_TEMPERATURE_EXTRAPOLATED;
 			if (worst > maxLeak) f |= BIT_OVER_LEAKAGE_TARGET;
-			if (hotV && coldV) {
-				let cw = 0;
-				for (let k = 0; k < c; k++) {
-					sort[k] = hotV[s0 + k];
-					if (hotV[s0 + k] > cw) cw = hotV[s0 + k];
-					if (coldV[s0 + k] > cw) cw = coldV[s0 + k];
-				}
-				dropHotV[p] = median(sort, c);
-				for (let k = 0; k < c; k++) sort[k] = coldV[s0 + k];
-				dropColdV[p] = median(sort, c);
-				dropWorstV[p] = cw;
-				if (cw > maxDrop) f |= BIT_FORWARD_DROP_OVER_LIMIT;
-			}
+			// NaN (no clamp current) never exceeds the limit.
+			if (dropWorstV[p] > maxDrop) f |= BIT_FORWARD_DROP_OVER_LIMIT;
 			if (maxCap !== undefined && this.hasCjo[p] && (!include || include[p] !== 0)) {
 				const cap = this.medianCapacitance(p, op.biasV, mid, constants);
 				capacitanceF[p] = cap;
@@ -561,6 +587,18 @@ export class CatalogueTable {
 		this.farCache.set(tC, far);
 		return far;
 	}
+}
+
+/** How many clamp current and temperature pairs' forward-drop columns a table keeps. */
+const DROP_CACHE_SIZE = 4;
+
+/** Forward-drop columns of `CatalogueTable.dropsAt` for one current and pair of temperatures. */
+interface DropColumns {
+	currentA: number;
+	cold: number;
+	hot: number;
+	constants: PhysicalConstants;
+	columns: Float64Array;
 }
 
 const LOW_WORD = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 0 : 1;

@@ -494,35 +494,53 @@ export class CatalogueTable {
 		const pass = this.scratchPass;
 		const fail = this.scratchFail;
 		const counts = this.counts;
+		// The table's columns as locals, so the loop reads them without going through `this`.
+		const start = this.start;
+		const count = this.count;
+		const staticFlags = this.staticFlags;
+		const minMeasured = this.minMeasured;
+		const ratedReverse = this.ratedReverse;
+		const hasCjo = this.hasCjo;
+		const biasV = op.biasV;
+		// Reverse bias [V] (−Infinity when forward, so no part is over its rating).
+		const reverseV = biasV < 0 ? -biasV : -Infinity;
+		const keepOver = op.includeOverRating === true;
 		counts[0] = counts[1] = counts[2] = 0;
 		for (let p = 0; p < n; p++) {
-			const s0 = this.start[p];
-			const c = this.count[p];
+			const s0 = start[p];
+			const c = count[p];
 			let worst = 0;
-			for (let k = 0; k < c; k++) {
-				const a = Math.abs(hotI[s0 + k]);
-				sort[k] = a;
-				if (a > worst) worst = a;
+			let typical: number;
+			if (c === 1) {
+				// One sample: it is the median; NaN stays out of the worst, as below.
+				typical = Math.abs(hotI[s0]);
+				if (typical > 0) worst = typical;
+			} else {
+				for (let k = 0; k < c; k++) {
+					const a = Math.abs(hotI[s0 + k]);
+					sort[k] = a;
+					if (a > worst) worst = a;
+				}
+				typical = median(sort, c);
 			}
-			const typical = median(sort, c);
 			typicalA[p] = typical;
 			worstA[p] = worst;
-			let f = this.staticFlags[p];
-			if (typical < this.minMeasured[p] / 10) f |= BIT_CURRENT_EXTRAPOLATED;
+			let f = staticFlags[p];
+			if (typical < minMeasured[p] / 10) f |= BIT_CURRENT_EXTRAPOLATED;
 			if (farCold[p] | farHot[p]) f |= BIT_TEMPERATURE_EXTRAPOLATED;
 			if (worst > maxLeak) f |= BIT_OVER_LEAKAGE_TARGET;
 			// NaN (no clamp current) never exceeds the limit.
 			if (dropWorstV[p] > maxDrop) f |= BIT_FORWARD_DROP_OVER_LIMIT;
-			if (maxCap !== undefined && this.hasCjo[p] && (!include || include[p] !== 0)) {
-				const cap = this.medianCapacitance(p, op.biasV, mid, constants);
+			if (maxCap !== undefined && hasCjo[p] && (!include || include[p] !== 0)) {
+				const cap = this.medianCapacitance(p, biasV, mid, constants);
 				capacitanceF[p] = cap;
 				if (cap > maxCap) f |= BIT_OVER_CAPACITANCE_LIMIT;
 			}
-			const over = op.biasV < 0 && -op.biasV > this.ratedReverse[p] - margin;
+			const over = reverseV > ratedReverse[p] - margin;
 			if (over) f |= BIT_OVER_REVERSE_RATING;
 			flags[p] = f;
 			if (include && include[p] === 0) continue;
-			if (over && !op.includeOverRating) counts[2]++;
+			if (over && !keepOver) counts[2]++;
 			else if ((f & LIMIT_BITS) === 0) pass[counts[0]++] = p;
 			else fail[counts[1]++] = p;
 		}
@@ -662,14 +680,14 @@ export function orderByLeakage(
 		while (e < take && words[2 * e + 1 - LOW_WORD] === hi && words[2 * e + LOW_WORD] >>> bits === lo) e++;
 		if (e === take && take < m) {
 			// The run at the cut: its members among the parts not selected compete for its places.
+			// One pass moves them down to keys[take …] (never past the entry read).
 			let extra = 0;
-			for (let j = take; j < m; j++) if (words[2 * j + 1 - LOW_WORD] === hi && words[2 * j + LOW_WORD] >>> bits === lo) extra++;
+			for (let j = take; j < m; j++)
+				if (words[2 * j + 1 - LOW_WORD] === hi && words[2 * j + LOW_WORD] >>> bits === lo) keys[take + extra++] = keys[j];
 			if (extra > 0) {
 				const run = new Int32Array(e - i + extra);
 				run.set(out.subarray(i, e));
-				let r = e - i;
-				for (let j = take; j < m; j++)
-					if (words[2 * j + 1 - LOW_WORD] === hi && words[2 * j + LOW_WORD] >>> bits === lo) run[r++] = parts[words[2 * j + LOW_WORD] & mask];
+				for (let x = 0; x < extra; x++) run[e - i + x] = parts[words[2 * (take + x) + LOW_WORD] & mask];
 				out.set(smallestSorted(run, take - i, cmp), i);
 				break;
 			}

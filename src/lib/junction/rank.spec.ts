@@ -354,6 +354,22 @@ describe('ordering by leakage', () => {
 		expect(Array.from(orderByLeakage(idx, zero, nan, 50))).toEqual(Array.from({ length: 50 }, (_, i) => i));
 	});
 
+	it('gives the same first parts whether they are listed from tight to leaky, leaky to tight or mixed', () => {
+		const n = 3000;
+		const r = mulberry32(9);
+		const orders = {
+			rising: Float64Array.from({ length: n }, (_, i) => 1e-12 * (1 + i)),
+			falling: Float64Array.from({ length: n }, (_, i) => 1e-12 * (n - i)),
+			mixed: Float64Array.from({ length: n }, () => 1e-12 * Math.floor(1 + 50 * r()))
+		};
+		const typical = Float64Array.from({ length: n }, () => 1e-13 * Math.floor(1 + 3 * r()));
+		const idx = Int32Array.from({ length: n }, (_, i) => i);
+		for (const worst of Object.values(orders)) {
+			const want = reference([...idx], worst, typical);
+			for (const limit of [1, 10, 100, 187, 188, 400]) expect(Array.from(orderByLeakage(idx, worst, typical, limit))).toEqual(want.slice(0, limit));
+		}
+	});
+
 	it('puts infinite and NaN leakage last (NaN after Infinity), ties by typical then index', () => {
 		const worst = Float64Array.of(NaN, Infinity, 1e-12, Infinity, Number.MAX_VALUE, NaN, 0);
 		const typical = Float64Array.of(1, 2, 1e-13, 1, 5, 0, 0);

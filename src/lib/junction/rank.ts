@@ -641,7 +641,9 @@ function compareNumbers(x: number, y: number): number {
  * value can be out of the exact order; each such run is re-sorted with the exact comparison.
  * With a limit, the run at the cut may continue among the parts not selected: its members
  * are gathered and only the best of them that fit are selected exactly (a bounded heap),
- * so a long run of ties costs one comparison per member rather than a sort.
+ * so a long run of ties costs one comparison per member rather than a sort. A limit of at
+ * most a sixteenth of the parts is first tried in one pass with a bounded heap under the
+ * exact comparison (`smallestByScan`), which needs no packing and no selection.
  * @param parts part indices in ascending order
  * @param scratch optional work array of at least parts.length entries (else one is allocated)
  */
@@ -655,6 +657,11 @@ export function orderByLeakage(
 	const m = parts.length;
 	const take = Math.min(m, Math.max(0, Math.floor(limit)));
 	if (take === 0) return new Int32Array(0);
+	const cmp = (a: number, b: number) => compareNumbers(worst[a], worst[b]) || compareNumbers(typical[a], typical[b]) || a - b;
+	if (take * 16 <= m) {
+		const best = smallestByScan(parts, worst, take, cmp);
+		if (best) return best;
+	}
 	const bits = Math.max(1, Math.ceil(Math.log2(m)));
 	if (bits > 31) throw new RangeError(`too many parts to order (${m})`);
 	const keys = scratch && scratch.length >= m ? scratch.subarray(0, m) : new Float64Array(m);
@@ -672,7 +679,6 @@ export function orderByLeakage(
 	const out = new Int32Array(take);
 	for (let i = 0; i < take; i++) out[i] = parts[words[2 * i + LOW_WORD] & mask];
 	// Re-sort runs of equal truncated worst leakage exactly.
-	const cmp = (a: number, b: number) => compareNumbers(worst[a], worst[b]) || compareNumbers(typical[a], typical[b]) || a - b;
 	for (let i = 0; i < take; ) {
 		const hi = words[2 * i + 1 - LOW_WORD];
 		const lo = words[2 * i + LOW_WORD] >>> bits;
@@ -696,6 +702,34 @@ export function orderByLeakage(
 		i = e;
 	}
 	return out;
+}
+
+/**
+ * The `k` best parts under `cmp` (exact order), found in one pass with a max-heap of `k`
+ * entries: a part whose worst leakage is above the heap's largest is passed over after one
+ * comparison of numbers. For parts in no particular order of leakage few enter the heap;
+ * when many do (parts listed from leaky to tight), this gives up (null) after m/4 entries
+ * so the caller's selection takes over.
+ */
+function smallestByScan(parts: Int32Array, worst: Float64Array, k: number, cmp: (a: number, b: number) => number): Int32Array | null {
+	const m = parts.length;
+	const heap = parts.slice(0, k);
+	for (let i = (k >> 1) - 1; i >= 0; i--) siftDown(heap, i, cmp);
+	let top = worst[heap[0]];
+	let entered = 0;
+	const budget = m >> 2;
+	for (let j = k; j < m; j++) {
+		const p = parts[j];
+		// Larger worst leakage never enters (NaN, ordered last, goes to the exact comparison).
+		if (worst[p] > top) continue;
+		if (cmp(p, heap[0]) < 0) {
+			if (++entered > budget) return null;
+			heap[0] = p;
+			siftDown(heap, 0, cmp);
+			top = worst[heap[0]];
+		}
+	}
+	return heap.sort(cmp);
 }
 
 /**

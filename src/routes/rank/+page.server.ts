@@ -6,7 +6,7 @@ import { DomainError } from '$lib/server/api';
 import { rankCatalogue } from '$lib/server/ranking';
 import { deletePreset, listPresets, presetForm, savePreset } from '$lib/server/rank-presets';
 import { fieldsFromQuery, parseFields } from '$lib/rank/operating-point-url';
-import { CURVE_COUNT, RANK_PAGE_ROWS } from './limits';
+import { CURVE_COUNT, RANK_PAGE_ROWS, SHOW_ALL_PARAM } from './limits';
 import type { Actions, PageServerLoad } from './$types';
 
 
@@ -19,7 +19,8 @@ export const load: PageServerLoad = async (event) => {
 		op ? rankCatalogue(op, RANK_PAGE_ROWS, CURVE_COUNT) : Promise.resolve(null),
 		listPresets(user.id)
 	]);
-	return { fields, errors, result, presets, canShortlist: can(user, 'shortlist:edit') };
+	const showAll = event.url.searchParams.get(SHOW_ALL_PARAM) === 'all';
+	return { fields, errors, result, presets, showAll, canShortlist: can(user, 'shortlist:edit') };
 };
 
 export const actions: Actions = {

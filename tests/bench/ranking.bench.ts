@@ -119,9 +119,12 @@ async function rankHttpVsHealth(sql: postgres.Sql, appUrl: string) {
 			ids.push(...chunkIds);
 			await sql`insert into part_models (part_id, typical, sample_models, measured, sample_count, is_measured, version)
 				select id, m, jsonb_build_array(m, m, m), ${sql.json(measured)}, 3, true, 1
-				from unnest(${chunkIds}::int[], ${chunk.map((m) => JSON.stringify(m))}::jsonb[]) as t(id, m)`;
+				from unnest(${chunkIds}::int[], ${chunk.map((m) => JSON.stringify(m))}::text[]) as t(id, mt), lateral (select mt::jsonb as m) j`;
 			for (const id of chunkIds) await sql`select pg_notify('junction_models', ${String(id)})`;
 		}
+		// Models must arrive as JSON objects the app can use, or the benchmark would rank junk.
+		const [{ bad }] = await sql`select count(*)::int as bad from part_models where part_id = any(${ids}::int[]) and (jsonb_typeof(typical) <> 'object' or typical->'IS' is null)`;
+		if (bad) throw new Error(`${bad} benchmark models were stored without a usable IS`);
 		// Wait for the app's cache to hold them all.
 		const body = { biasV: -5, temperatureRangeC: [0, 85], clampCurrentA: 1e-3, maxForwardDropV: 0.7, limit: 50 };
 		for (let k = 0; k < 200; k++) {

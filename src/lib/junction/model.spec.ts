@@ -43,3 +43,14 @@ describe('material defaults', () => {
 		expect(() => canonicalMaterial('toString' as never)).toThrow(RangeError);
 	});
 });
+
+describe('a model without its saturation current is refused', () => {
+	it.each([
+		['IS missing', {}],
+		['IS not a number', { IS: Number.NaN }],
+		['IS zero', { IS: 0 }],
+		['IS negative', { IS: -1e-14 }]
+	])('%s', (_name, input) => {
+		expect(() => createModel(input as { IS: number })).toThrow(/IS/);
+	});
+});

@@ -108,6 +108,11 @@ function positive(name: string, v: number | undefined, allowZero = false): void 
 		throw new RangeError(`${name} must be a finite ${allowZero ? 'non-negative' : 'positive'} number, got ${v}`);
 }
 
+function required(name: string, v: number | undefined): void {
+	if (v === undefined || v === null) throw new RangeError(`${name} is required`);
+	positive(name, v);
+}
+
 /**
  * Build a complete, validated model from partial parameters and a material (default
  * silicon). EG and XTI fall back on MATERIAL_DEFAULTS; a model whose EG is an assumed
@@ -149,8 +154,9 @@ export function createModel(input: JunctionModelInput, material?: JunctionMateri
  * @throws RangeError naming the first offending parameter.
  */
 export function validateModel(m: JunctionModel): void {
-	positive('IS', m.IS);
-	positive('N', m.N);
+	// IS and N are what every prediction is made of: absent is not optional here.
+	required('IS', m.IS);
+	required('N', m.N);
 	positive('RS', m.RS, true);
 	positive('RSH', m.RSH);
 	positive('ISR', m.ISR, true);

@@ -12,7 +12,7 @@ export async function loadDemoCatalogue(actor: { id: string } | null): Promise<{
 	const { parts, samples, runs: runTable } = await import('../../src/lib/server/db/schema');
 	const catalogue = await import('../../src/lib/server/catalogue');
 	const runs = await import('../../src/lib/server/runs');
-	const { parseModelCard } = await import('../../src/lib/junction');
+	const { readModelCard } = await import('../../src/lib/catalogue/model-card');
 	const { partInput } = await import('../../src/lib/schemas/catalogue');
 	const { createHash } = await import('node:crypto');
 
@@ -26,8 +26,9 @@ export async function loadDemoCatalogue(actor: { id: string } | null): Promise<{
 		if (!part) {
 			let model;
 			if (d.card) {
-				const c = parseModelCard(d.card);
-				model = Object.fromEntries(c.given.filter((k) => k !== 'shuntFactorPer10K').map((k) => [k, (c.model as unknown as Record<string, number>)[k]]));
+				const c = readModelCard(d.card);
+				if (!c.ok) throw new Error(`demo card of ${d.partNumber}: ${c.message}`);
+				model = c.model;
 			}
 			const input = partInput.parse({
 				partNumber: d.partNumber,

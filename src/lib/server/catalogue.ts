@@ -1,6 +1,7 @@
 // The parts catalogue: creating and changing parts, samples and given models; listings.
-import { and, asc, desc, eq, gt, ilike, or, sql, type SQL } from 'drizzle-orm';
-import { emitModelCard, parseModelCard } from '$lib/junction';
+import { and, asc, desc, eq, gt, ilike, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { emitModelCard } from '$lib/junction';
+import { readModelCard } from '$lib/catalogue/model-card';
 import { DEFAULT_MATERIAL, type JunctionKind, type Material } from '$lib/catalogue/vocabulary';
 import { partFlags, toEngine } from '$lib/catalogue/models';
 import type { PartInput, PartPatch } from '$lib/schemas/catalogue';
@@ -110,29 +111,26 @@ export async function update(actor: Actor, id: number, patch: PartPatch): Promis
 	}
 }
 
-/** Reads a SPICE `.model` card and keeps it as the part's given model, with its source. */
+/** Reads a SPICE `.model` card (readModelCard, as the forms' preview does) and keeps it as the part's given model, with its source. */
 export async function importModelCard(actor: Actor, id: number, cardText: string, source: string) {
 	const part = await get(id);
 	if (!part) throw new DomainError(404, `No part ${id}.`);
-	let parsed;
-	try {
-		parsed = parseModelCard(cardText);
-	} catch (e) {
-		throw new DomainError(400, `The card cannot be read: ${(e as Error).message}.`, [{ path: 'card', message: (e as Error).message }]);
-	}
-	const stored: StoredModel = { IS: parsed.model.IS, N: parsed.model.N };
-	for (const k of parsed.given) {
-		const v = (parsed.model as unknown as Record<string, number>)[k];
-		if (k !== 'shuntFactorPer10K' && typeof v === 'number') (stored as Record<string, number>)[k] = v;
-	}
-	checkModel(stored, part.material as Material, 'card');
-	const src = source.trim() || `.model ${parsed.name}`;
+	const card = cardModel(cardText, part.material as Material);
+	const src = source.trim() || `.model ${card.name}`;
 	await db.transaction(async (tx) => {
-		await tx.update(parts).set({ givenModel: stored, givenModelSource: src }).where(eq(parts.id, id));
+		await tx.update(parts).set({ givenModel: card.model, givenModelSource: src }).where(eq(parts.id, id));
 		await rebuildPartModel(tx, id);
-		await recordAudit(tx, { actorId: actor?.id ?? null, action: 'part.model-card', entity: 'part', entityId: id, detail: { name: parsed.name, source: src, warnings: parsed.warnings } });
+		await recordAudit(tx, { actorId: actor?.id ?? null, action: 'part.model-card', entity: 'part', entityId: id, detail: { name: card.name, source: src, warnings: card.warnings } });
 	});
-	return { name: parsed.name, model: stored, warnings: parsed.warnings };
+	return { name: card.name, model: card.model, warnings: card.warnings };
+}
+
+/** A card's model, checked by the engine for this material. @throws DomainError 400 naming the card. */
+export function cardModel(cardText: string, material: Material) {
+	const card = readModelCard(cardText);
+	if (!card.ok) throw new DomainError(400, `The card cannot be read: ${card.message}.`, [{ path: 'card', message: card.message }]);
+	checkModel(card.model, material, 'card');
+	return card;
 }
 
 export async function addSample(actor: Actor, partId: number, input: { unit: string; lot: string; dateCode: string }) {
@@ -171,10 +169,14 @@ export async function detail(id: number) {
 			sha256: runs.fileSha256,
 			points: runs.points,
 			createdAt: runs.createdAt,
-			fit: { model: fits.model, interval: fits.interval, quality: fits.quality, range: fits.range, excludedV: fits.excludedV }
+			state: runs.state,
+			withdrawnAt: runs.withdrawnAt,
+			withdrawnReason: runs.withdrawnReason,
+			fit: { version: fits.version, model: fits.model, interval: fits.interval, quality: fits.quality, range: fits.range, excludedV: fits.excludedV }
 		})
 		.from(runs)
-		.leftJoin(fits, eq(fits.runId, runs.id))
+		// The current fit version of each run; earlier ones are on the run's own page.
+		.leftJoin(fits, and(eq(fits.runId, runs.id), isNull(fits.supersededAt)))
 		.where(eq(runs.partId, id))
 		.orderBy(asc(runs.id));
 	return { part, model: model ?? null, samples: sampleRows, runs: runRows };

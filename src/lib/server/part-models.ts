@@ -1,6 +1,7 @@
-// Rebuilds a part's aggregate model row (part_models) from its fits or its given model.
-// Called inside the transaction that changed a fit, a sample or the given model.
-import { asc, eq, sql } from 'drizzle-orm';
+// Rebuilds a part's aggregate model row (part_models) from its active runs' current fits,
+// or its given model. Called inside the transaction that changed a fit, a run's state, a
+// sample or the given model.
+import { and, asc, eq, isNull, sql } from 'drizzle-orm';
 import type { DbOrTx } from './db';
 import { fits, partModels, parts, runs, type StoredModel } from './db/schema';
 import { notifyModelChanged } from './model-events';
@@ -57,8 +58,9 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 		})
 		.from(fits)
 		.innerJoin(runs, eq(runs.id, fits.runId))
-		.where(eq(fits.partId, partId))
-		.orderBy(asc(fits.id));
+		// Each active run's current fit: withdrawn runs and superseded fit versions stay on record but out of the model.
+		.where(and(eq(fits.partId, partId), isNull(fits.supersededAt), eq(runs.state, 'active')))
+		.orderBy(asc(fits.runId));
 	const version = part.modelVersion;
 	const material = part.material as Material;
 

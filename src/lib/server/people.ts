@@ -6,6 +6,8 @@ import { enqueueMail } from './mail';
 import { isRole, type Role } from '$lib/permissions';
 
 export type Person = { id: string; email: string; name: string; roles: Role[] };
+/** A person as lists and records name them. */
+export type PersonRef = { id: string; name: string; email: string };
 
 function normaliseEmail(email: string) {
 	return email.trim().toLowerCase();
@@ -67,6 +69,14 @@ export async function findByTokenHash(digest: string) {
 	const [row] = await byTokenHash.execute({ digest });
 	if (!row) return null;
 	return { person: toPerson(row, (row.roles ?? []).filter(isRole)), tokenId: row.tokenId, tokenHash: row.tokenHash, lastUsedAt: row.lastUsedAt };
+}
+
+/** Names and addresses of the people with these ids (ids missing or null are skipped). */
+export async function personRefs(ids: (string | null)[], tx: DbOrTx = db): Promise<Map<string, PersonRef>> {
+	const wanted = [...new Set(ids.filter((x): x is string => !!x))];
+	if (!wanted.length) return new Map();
+	const rows = await tx.select({ id: users.id, name: users.name, email: users.email }).from(users).where(inArray(users.id, wanted));
+	return new Map(rows.map((u) => [u.id, { id: u.id, email: u.email, name: u.name ?? u.email }]));
 }
 
 export async function list(): Promise<Person[]> {

@@ -110,6 +110,35 @@ export function fitParsed(sweep: ParsedSweep, ctx: FitContext, excludedV: [numbe
 }
 
 /**
+ * Reads sweep bytes (UTF-8 CSV) holding one temperature, at the typed temperature when the
+ * file has no temperature column. The same reading serves uploads and later re-fits of the
+ * stored file. @throws DomainError 422 naming row and column.
+ */
+export function parseSweepBytes(bytes: Uint8Array, temperatureC: number | undefined): ParsedSweep {
+	let text: string;
+	try {
+		text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+	} catch {
+		throw new DomainError(422, 'The file is not UTF-8 text (is it a spreadsheet or a binary export?). Save the sweep as CSV. Nothing was stored.', [
+			{ message: 'the bytes are not valid UTF-8 text' }
+		]);
+	}
+	let sweep: ParsedSweep;
+	try {
+		sweep = parseSweepCsv(text, { temperatureC });
+	} catch (e) {
+		domainFromEngine(e);
+	}
+	if (sweep.runs.length > 1) {
+		const temps = sweep.runs.map((r) => `${r.temperatureC.toFixed(1)} °C`).join(', ');
+		throw new DomainError(422, `The file holds sweeps at ${temps}; upload one temperature per file. Nothing was stored.`, [
+			{ column: sweep.columns.temperature, message: `several temperatures in one file (${temps})` }
+		]);
+	}
+	return sweep;
+}
+
+/**
  * Checks, parses and fits a sweep without touching the database.
  * @throws DomainError 413 (too large) or 422 (unreadable, implausible or unfittable), with row/column issues.
  */
@@ -132,26 +161,7 @@ export function prepare(
 	} catch (e) {
 		domainFromEngine(e);
 	}
-	let text: string;
-	try {
-		text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
-	} catch {
-		throw new DomainError(422, 'The file is not UTF-8 text (is it a spreadsheet or a binary export?). Save the sweep as CSV. Nothing was stored.', [
-			{ message: 'the bytes are not valid UTF-8 text' }
-		]);
-	}
-	let sweep: ParsedSweep;
-	try {
-		sweep = parseSweepCsv(text, { temperatureC: opts.temperatureC });
-	} catch (e) {
-		domainFromEngine(e);
-	}
-	if (sweep.runs.length > 1) {
-		const temps = sweep.runs.map((r) => `${r.temperatureC.toFixed(1)} °C`).join(', ');
-		throw new DomainError(422, `The file holds sweeps at ${temps}; upload one temperature per file. Nothing was stored.`, [
-			{ column: sweep.columns.temperature, message: `several temperatures in one file (${temps})` }
-		]);
-	}
+	const sweep = parseSweepBytes(bytes, opts.temperatureC);
 	const run = sweep.runs[0];
 	if (sweep.columns.temperature && opts.temperatureC !== undefined && !opts.temperatureDefaulted && Math.abs(run.temperatureC - opts.temperatureC) > TEMPERATURE_AGREEMENT_K) {
 		throw new DomainError(
@@ -185,7 +195,7 @@ export function prepare(
 
 async function duplicateOf(sha: string) {
 	const [dup] = await db
-		.select({ id: runs.id, fileName: runs.fileName, createdAt: runs.createdAt, partNumber: parts.partNumber, unit: samples.unit, partId: parts.id })
+		.select({ id: runs.id, fileName: runs.fileName, createdAt: runs.createdAt, partNumber: parts.partNumber, unit: samples.unit, partId: parts.id, state: runs.state })
 		.from(runs)
 		.innerJoin(parts, eq(parts.id, runs.partId))
 		.innerJoin(samples, eq(samples.id, runs.sampleId))
@@ -197,7 +207,9 @@ async function duplicateOf(sha: string) {
 function duplicateError(dup: NonNullable<Awaited<ReturnType<typeof duplicateOf>>>): DomainError {
 	return new DomainError(
 		409,
-		`This exact file was already uploaded as run ${dup.id} (“${dup.fileName}”, ${dup.partNumber} sample ${dup.unit}, ${dup.createdAt.toISOString().slice(0, 10)}). Nothing was stored.`,
+		`This exact file was already uploaded as run ${dup.id} (“${dup.fileName}”, ${dup.partNumber} sample ${dup.unit}, ${dup.createdAt.toISOString().slice(0, 10)})${
+			dup.state === 'withdrawn' ? ' and later withdrawn; put that run back into the model from its page instead' : ''
+		}. Nothing was stored.`,
 		[{ path: 'file', message: `same SHA-256 as run ${dup.id}` }]
 	);
 }

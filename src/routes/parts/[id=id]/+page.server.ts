@@ -1,16 +1,19 @@
 import { requirePermission } from '$lib/server/guards';
 import * as catalogue from '$lib/server/catalogue';
 import { currentMagnitude } from '$lib/catalogue/models';
+import { can } from '$lib/permissions';
 import type { PageServerLoad } from './$types';
 
 const TEMPS = Array.from({ length: 34 }, (_, k) => -40 + 5 * k); // −40 … +125 °C
 
 export const load: PageServerLoad = async (event) => {
-	requirePermission(event, 'catalogue:read');
+	const user = requirePermission(event, 'catalogue:read');
 	const id = Number(event.params.id);
 	const d = await catalogue.detailOr404(id);
 	const { part, model } = d;
 	const unitOf = new Map(d.samples.map((s) => [s.id, s.unit]));
+	// Withdrawn runs are listed apart: they no longer shape the model or its curves.
+	const active = d.runs.filter((r) => r.state === 'active');
 	// Two reverse biases worth comparing: a small one (as across a guarded input) and half the rating.
 	const vr = part.ratedReverseV ?? 5;
 	const biases = [-0.1, -Math.min(10, Math.max(0.5, vr / 2))];
@@ -24,7 +27,7 @@ export const load: PageServerLoad = async (event) => {
 	// Fitted curve of the typical model at 25 °C over the measured voltage span.
 	let curve: { x: number; y: number }[] = [];
 	if (model) {
-		const vs = d.runs.flatMap((r) => r.points.map((p) => p[0]));
+		const vs = active.flatMap((r) => r.points.map((p) => p[0]));
 		const lo = vs.length ? Math.min(...vs) : -1;
 		const hi = vs.length ? Math.max(...vs) : 0.8;
 		curve = Array.from({ length: 121 }, (_, k) => lo + ((hi - lo) * k) / 120)
@@ -35,7 +38,11 @@ export const load: PageServerLoad = async (event) => {
 	return {
 		part: catalogue.present(part, model),
 		samples: d.samples,
-		runs: d.runs.map((r) => ({ ...r, sample: unitOf.get(r.sampleId) ?? '?' })),
+		runs: active.map((r) => ({ ...r, sample: unitOf.get(r.sampleId) ?? '?' })),
+		withdrawn: d.runs
+			.filter((r) => r.state === 'withdrawn')
+			.map((r) => ({ id: r.id, sample: unitOf.get(r.sampleId) ?? '?', temperatureC: r.temperatureC, fileName: r.fileName, at: r.withdrawnAt, reason: r.withdrawnReason ?? '' })),
+		canShortlist: can(user, 'shortlist:edit'),
 		leakage,
 		curve,
 		card

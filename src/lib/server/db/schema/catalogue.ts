@@ -11,6 +11,8 @@ import {
 	timestamp,
 	uniqueIndex
 } from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
+import type { RunState } from '../../../run-transitions';
 import { users } from './auth';
 import { timestamps } from './columns';
 
@@ -123,6 +125,13 @@ export const runs = pgTable(
 		/** Parsed, merged points as [voltageV, currentA] pairs. */
 		points: jsonb('points').$type<[number, number][]>().notNull(),
 		uploadedBy: text('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+		/** Whether the run counts toward the part's model (src/lib/run-transitions.ts). */
+		state: text('state').$type<RunState>().notNull().default('active'),
+		/** Bumped by every change to the run; a change names the revision it started from. */
+		revision: integer('revision').notNull().default(1),
+		withdrawnAt: timestamp('withdrawn_at', { withTimezone: true, mode: 'date' }),
+		withdrawnBy: text('withdrawn_by').references(() => users.id, { onDelete: 'set null' }),
+		withdrawnReason: text('withdrawn_reason'),
 		...timestamps
 	},
 	(t) => [
@@ -139,6 +148,10 @@ export type FitInterval = {
 	RSH?: [number, number];
 	EG?: [number, number];
 };
+/** Why a fit version was made: the upload, a librarian's re-fit, or a corrected sample or temperature. */
+export const FIT_CAUSES = ['upload', 'refit', 'correction'] as const;
+export type FitCause = (typeof FIT_CAUSES)[number];
+
 export type FitQuality = { points: number; rejected: number; rmsResidualV: number };
 export type FitRange = {
 	currentA: [number, number];
@@ -170,9 +183,20 @@ export const fits = pgTable(
 		/** Voltage window left out of the fit by a librarian's correction, if any. */
 		excludedV: jsonb('excluded_v').$type<[number, number] | null>(),
 		fittedBy: text('fitted_by').references(() => users.id, { onDelete: 'set null' }),
+		/** 1 for the upload's fit, then one more for each re-fit or correction of the run. */
+		version: integer('version').notNull().default(1),
+		cause: text('cause').$type<FitCause>().notNull().default('upload'),
+		/** The librarian's words on why this version was made ('' for an upload). */
+		note: text('note').notNull().default(''),
+		/** Set when a newer version replaced this one; the run's current fit has none. */
+		supersededAt: timestamp('superseded_at', { withTimezone: true, mode: 'date' }),
 		...timestamps
 	},
-	(t) => [uniqueIndex('fits_run_idx').on(t.runId), index('fits_part_idx').on(t.partId)]
+	(t) => [
+		uniqueIndex('fits_run_version_idx').on(t.runId, t.version),
+		uniqueIndex('fits_run_current_idx').on(t.runId).where(sql`${t.supersededAt} is null`),
+		index('fits_part_idx').on(t.partId)
+	]
 );
 
 /** Each part's model as the catalogue predicts with it: typical (median over samples),

@@ -19,8 +19,11 @@ async function full(id: number) {
 			sha256: r.sha256,
 			pointCount: r.points.length,
 			createdAt: r.createdAt,
+			state: r.state,
+			withdrawn: r.state === 'withdrawn' ? { at: r.withdrawnAt, reason: r.withdrawnReason ?? '' } : null,
 			fit: r.fit,
-			file: `/parts/${id}/runs/${r.id}/file`
+			file: `/parts/${id}/runs/${r.id}/file`,
+			run: `/api/v1/junctions/${id}/runs/${r.id}`
 		}))
 	};
 }

@@ -1,0 +1,225 @@
+// Putting a stored run right: withdraw it (or put it back), fit it again with another
+// voltage window, or correct its sample or temperature. Each change is one transaction: a
+// guarded update of the run (its state and revision, so the loser of a race gets 409), the
+// new fit version where there is one (the earlier kept and marked superseded), the part's
+// model rebuilt and announced, and an audit row. Nothing is ever deleted.
+import { and, desc, eq, isNull, max } from 'drizzle-orm';
+import { checkRunAction, type RunAction } from '$lib/run-transitions';
+import type { Material } from '$lib/catalogue/vocabulary';
+import type { Actor } from '$lib/permissions';
+import { DomainError } from './api';
+import { fail } from './http-error';
+import { recordAudit } from './audit';
+import { db, type DbOrTx } from './db';
+import { auditLog, fits, parts, runs, samples, type FitCause } from './db/schema';
+import { rebuildPartModel } from './part-models';
+import { personRefs } from './people';
+import { fitParsed, parseSweepBytes, type StoredFit } from './runs';
+
+type Who = NonNullable<Actor>;
+type RunRow = typeof runs.$inferSelect;
+type FitRow = typeof fits.$inferSelect;
+type Loaded = { run: RunRow; part: typeof parts.$inferSelect; unit: string; fit: FitRow | null };
+
+/** What one change writes besides the run's state and revision. */
+type Plan = {
+	set?: Partial<typeof runs.$inferInsert>;
+	/** Move the run to this sample (created when the part has none by that label). */
+	sampleUnit?: string;
+	/** A new fit version replacing the current one. */
+	fit?: { fit: StoredFit; cause: FitCause; note: string };
+	audit: Record<string, unknown>;
+};
+
+async function load(partId: number, runId: number, tx: DbOrTx = db): Promise<Loaded> {
+	const [row] = await tx
+		.select({ run: runs, part: parts, unit: samples.unit })
+		.from(runs)
+		.innerJoin(parts, eq(parts.id, runs.partId))
+		.innerJoin(samples, eq(samples.id, runs.sampleId))
+		.where(and(eq(runs.id, runId), eq(runs.partId, partId)));
+	if (!row) throw new DomainError(404, `Part ${partId} has no run ${runId}.`);
+	const [fit] = await tx.select().from(fits).where(and(eq(fits.runId, runId), isNull(fits.supersededAt)));
+	return { ...row, fit: fit ?? null };
+}
+
+async function sampleFor(tx: DbOrTx, actorId: string, partId: number, unit: string): Promise<number> {
+	const [made] = await tx.insert(samples).values({ partId, unit }).onConflictDoNothing().returning({ id: samples.id });
+	if (made) {
+		await recordAudit(tx, { actorId, action: 'sample.create', entity: 'sample', entityId: made.id, detail: { partId, unit } });
+		return made.id;
+	}
+	const [found] = await tx.select({ id: samples.id }).from(samples).where(and(eq(samples.partId, partId), eq(samples.unit, unit)));
+	return found.id;
+}
+
+/** Why a guarded update changed nothing: someone else changed the run first. */
+async function lostRace(tx: DbOrTx, runId: number, action: RunAction): Promise<DomainError> {
+	const [now] = await tx.select({ state: runs.state, by: runs.withdrawnBy, at: runs.withdrawnAt }).from(runs).where(eq(runs.id, runId));
+	if (now?.state === 'withdrawn') {
+		const who = now.by ? ((await personRefs([now.by], tx)).get(now.by)?.name ?? 'someone') : 'someone';
+		return new DomainError(409, `The run was withdrawn a moment ago by ${who}; it cannot be ${action === 'withdraw' ? 'withdrawn twice' : 'changed now'}.`);
+	}
+	return new DomainError(409, 'Someone changed this run a moment ago; reload to see the latest before changing it.');
+}
+
+/**
+ * Checks the person (403) and the run's state (409), works out the change outside the
+ * transaction (fitting can take a moment), then writes it only if nobody changed the run meanwhile.
+ */
+async function amend(actor: Who, partId: number, runId: number, action: RunAction, plan: (c: Loaded) => Plan) {
+	const loaded = await load(partId, runId);
+	const check = checkRunAction(actor, action, loaded.run.state);
+	if (!check.ok) throw new DomainError(check.status, check.reason);
+	const p = plan(loaded);
+	const { run } = loaded;
+	const modelVersion = await db.transaction(async (tx) => {
+		const sampleId = p.sampleUnit ? await sampleFor(tx, actor.id, partId, p.sampleUnit) : run.sampleId;
+		const updated = await tx
+			.update(runs)
+			.set({ ...p.set, sampleId, state: check.to, revision: run.revision + 1 })
+			.where(and(eq(runs.id, runId), eq(runs.state, run.state), eq(runs.revision, run.revision)))
+			.returning({ id: runs.id });
+		if (updated.length !== 1) throw await lostRace(tx, runId, action);
+		let fitVersion = loaded.fit?.version ?? null;
+		if (p.fit) {
+			const [{ last }] = await tx.select({ last: max(fits.version) }).from(fits).where(eq(fits.runId, runId));
+			fitVersion = (last ?? 0) + 1;
+			await tx.update(fits).set({ supersededAt: new Date() }).where(and(eq(fits.runId, runId), isNull(fits.supersededAt)));
+			await tx.insert(fits).values({ runId, partId, sampleId, ...p.fit.fit, version: fitVersion, cause: p.fit.cause, note: p.fit.note, fittedBy: actor.id });
+		}
+		const version = await rebuildPartModel(tx, partId);
+		await recordAudit(tx, { actorId: actor.id, action: `run.${action}`, entity: 'run', entityId: runId, detail: { partId, ...p.audit, fitVersion, modelVersion: version } });
+		return version;
+	});
+	return { ...(await runDetail(partId, runId)), modelVersion };
+}
+
+/** The run no longer counts toward its part's model; its file, fits and history stay. */
+export function withdraw(actor: Who, partId: number, runId: number, reason: string) {
+	return amend(actor, partId, runId, 'withdraw', () => ({
+		set: { withdrawnAt: new Date(), withdrawnBy: actor.id, withdrawnReason: reason },
+		audit: { reason }
+	}));
+}
+
+/** A withdrawn run counts again (its current fit as it was). */
+export function reinstate(actor: Who, partId: number, runId: number, reason: string) {
+	return amend(actor, partId, runId, 'reinstate', (c) => ({
+		set: { withdrawnAt: null, withdrawnBy: null, withdrawnReason: null },
+		audit: { reason, withdrawnReason: c.run.withdrawnReason }
+	}));
+}
+
+/** Fits the stored file again at the run's temperature with the run's current window unless told otherwise. */
+function fitStored(c: Loaded, temperatureC: number, excludedV: [number, number] | null): StoredFit {
+	const sweep = parseSweepBytes(c.run.fileBytes, temperatureC);
+	return fitParsed(sweep, { material: c.part.material as Material, given: c.part.givenModel }, excludedV).fit;
+}
+
+/** A new fit version of the stored file, leaving out `excludeV` (null: every point). */
+export function refit(actor: Who, partId: number, runId: number, input: { excludeV: [number, number] | null; reason: string }) {
+	return amend(actor, partId, runId, 'refit', (c) => ({
+		fit: { fit: fitStored(c, c.run.temperatureC, input.excludeV), cause: 'refit', note: input.reason },
+		audit: { from: { excludedV: c.fit?.excludedV ?? null }, to: { excludedV: input.excludeV }, reason: input.reason }
+	}));
+}
+
+/**
+ * Records that the run was of another sample or at another temperature. The earlier values
+ * stay in the previous fit version and the audit row; a temperature change fits the file again.
+ * @throws DomainError 400 when nothing would change, 422 when the file states its own temperature.
+ */
+export function correct(actor: Who, partId: number, runId: number, input: { sample?: string; temperatureC?: number; reason: string }) {
+	return amend(actor, partId, runId, 'correct', (c) => {
+		const sample = input.sample !== undefined && input.sample !== c.unit ? input.sample : undefined;
+		const temperatureC = input.temperatureC !== undefined && input.temperatureC !== c.run.temperatureC ? input.temperatureC : undefined;
+		if (sample === undefined && temperatureC === undefined)
+			throw new DomainError(400, `The run is already sample ${c.unit} at ${c.run.temperatureC} °C; nothing to correct.`, [{ path: 'sample', message: 'same sample and temperature as now' }]);
+		let fit: StoredFit | undefined;
+		if (temperatureC !== undefined) {
+			const column = parseSweepBytes(c.run.fileBytes, temperatureC).columns.temperature;
+			if (column)
+				throw new DomainError(422, `The file gives its own temperature in the column “${column}”; that cannot be corrected here. Withdraw the run and upload a corrected file.`, [
+					{ path: 'temperatureC', column, message: 'the file states the temperature' }
+				]);
+			fit = fitStored(c, temperatureC, c.fit?.excludedV ?? null);
+		} else if (c.fit) {
+			const { model, interval, quality, range, excludedV } = c.fit;
+			fit = { model, interval, quality, range, excludedV };
+		}
+		return {
+			set: temperatureC !== undefined ? { temperatureC } : {},
+			sampleUnit: sample,
+			fit: fit ? { fit, cause: 'correction', note: input.reason } : undefined,
+			audit: {
+				from: { sample: c.unit, temperatureC: c.run.temperatureC },
+				to: { sample: sample ?? c.unit, temperatureC: temperatureC ?? c.run.temperatureC },
+				reason: input.reason
+			}
+		};
+	});
+}
+
+export type RunDetail = Awaited<ReturnType<typeof runDetail>>;
+
+/** A run with every fit version (newest first) and its history, as the run page and API show it. */
+export async function runDetail(partId: number, runId: number) {
+	const { run, part, unit } = await load(partId, runId);
+	const versions = await db.select().from(fits).where(eq(fits.runId, runId)).orderBy(desc(fits.version));
+	const history = await db
+		.select()
+		.from(auditLog)
+		.where(and(eq(auditLog.entity, 'run'), eq(auditLog.entityId, String(runId))))
+		.orderBy(desc(auditLog.at), desc(auditLog.id));
+	const refs = await personRefs([run.uploadedBy, run.withdrawnBy, ...versions.map((f) => f.fittedBy), ...history.map((h) => h.actorId)]);
+	const name = (id: string | null) => (id ? (refs.get(id)?.name ?? 'someone') : null);
+	const present = (f: FitRow) => ({
+		id: f.id,
+		version: f.version,
+		cause: f.cause,
+		note: f.note,
+		current: f.supersededAt === null,
+		model: f.model,
+		interval: f.interval,
+		quality: f.quality,
+		range: f.range,
+		excludedV: f.excludedV,
+		fittedBy: name(f.fittedBy),
+		createdAt: f.createdAt,
+		supersededAt: f.supersededAt
+	});
+	const fitVersions = versions.map(present);
+	return {
+		id: run.id,
+		partId,
+		partNumber: part.partNumber,
+		maker: part.maker,
+		sample: unit,
+		temperatureC: run.temperatureC,
+		direction: run.direction,
+		fileName: run.fileName,
+		sha256: run.fileSha256,
+		pointCount: run.points.length,
+		points: run.points,
+		uploadedBy: name(run.uploadedBy),
+		createdAt: run.createdAt,
+		state: run.state,
+		revision: run.revision,
+		withdrawn: run.state === 'withdrawn' ? { at: run.withdrawnAt, by: name(run.withdrawnBy), reason: run.withdrawnReason ?? '' } : null,
+		fit: fitVersions.find((f) => f.current) ?? null,
+		fits: fitVersions,
+		history: history.map((h) => ({ at: h.at, by: name(h.actorId) ?? 'someone (since removed)', action: h.action.replace(/^run\./, ''), detail: h.detail })),
+		file: `/parts/${partId}/runs/${runId}/file`
+	};
+}
+
+/** A run's detail, or a 404 (page or JSON, through the caller's error handling). */
+export async function runDetailOr404(partId: number, runId: number): Promise<RunDetail> {
+	try {
+		return await runDetail(partId, runId);
+	} catch (e) {
+		if (e instanceof DomainError && e.status === 404) fail(404, e.message);
+		throw e;
+	}
+}

@@ -2,6 +2,7 @@ import { redirect, type Handle, type HandleServerError, type ServerInit } from '
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle, SESSION_COOKIES } from '$lib/server/auth';
 import { apiError, isDatabaseDown } from '$lib/server/api';
+import { asJsonApiError } from '$lib/server/api-errors';
 import { client } from '$lib/server/db';
 import { isCrossSiteFormWrite } from '$lib/server/csrf';
 import { startOutboxWorker, stopOutboxWorker } from '$lib/server/mail';
@@ -99,7 +100,14 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(securityHeaders, originCheck, authHandle, identify, gate);
+/** Unknown /api/ paths, wrong methods and unexpected errors answer JSON like every other API error. */
+const apiErrors: Handle = async ({ event, resolve }) => {
+	const response = await resolve(event);
+	if (!event.url.pathname.startsWith('/api/')) return response;
+	return asJsonApiError(response, event.request.method, event.url.pathname);
+};
+
+export const handle = sequence(securityHeaders, apiErrors, originCheck, authHandle, identify, gate);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (isDatabaseDown(error)) {

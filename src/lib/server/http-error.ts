@@ -6,19 +6,23 @@ export type ErrorCode =
 	| 'unauthenticated'
 	| 'forbidden'
 	| 'not_found'
+	| 'method_not_allowed'
 	| 'conflict'
 	| 'too_large'
 	| 'unprocessable'
-	| 'unavailable';
+	| 'unavailable'
+	| 'internal';
 
 export const STATUS_CODE: Record<number, ErrorCode> = {
 	400: 'bad_request',
 	401: 'unauthenticated',
 	403: 'forbidden',
 	404: 'not_found',
+	405: 'method_not_allowed',
 	409: 'conflict',
 	413: 'too_large',
 	422: 'unprocessable',
+	500: 'internal',
 	503: 'unavailable'
 };
 

@@ -2,6 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
 import { DomainError } from '$lib/server/api';
 import * as catalogue from '$lib/server/catalogue';
+import { cardTextFrom } from '$lib/catalogue/model-card';
 import { fieldErrors, partFormErrors, partFromForm, partInput, sampleInput } from '$lib/schemas/catalogue';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -72,7 +73,7 @@ export const actions: Actions = {
 	card: async (event) => {
 		const user = requirePermission(event, 'catalogue:write');
 		const f = await event.request.formData();
-		const values = { card: String(f.get('card') ?? ''), source: String(f.get('source') ?? '') };
+		const values = { card: await cardTextFrom(f), source: String(f.get('source') ?? '') };
 		if (!values.card.trim()) return fail(400, { card: { values, errors: { card: 'Paste a .model card, e.g. .model X D(IS=2f N=1.02 RS=5).' } as Record<string, string> } });
 		try {
 			const r = await catalogue.importModelCard(user, Number(event.params.id), values.card, values.source);

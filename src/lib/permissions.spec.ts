@@ -9,6 +9,7 @@ const EXPECTED: Record<Action, Role[] | 'all'> = {
 	'project:read': 'all',
 	'project:create': ['designer'],
 	'shortlist:edit': ['designer'],
+	'project:people': ['designer', 'lead'],
 	'review:submit': ['designer'],
 	'review:decide': ['lead'],
 	'people:manage': ['admin'],

@@ -2,12 +2,13 @@
  * Projects: a saved requirement, its members and lead, and a shortlist of parts, each
  * re-evaluated live against the requirement. Review transitions live in review.ts.
  */
-import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { db, type DbOrTx } from './db';
 import { auditLog, parts, projectMembers, projects, reviewEvents, shortlistEntries, users, type Requirement } from './db/schema';
 import { DomainError } from './api';
 import { recordAudit } from './audit';
 import * as people from './people';
+import { personRefs, type PersonRef } from './people';
 import { predictEntries, type ModelRecord, type Prediction } from './project-predictions';
 import { EDITABLE_STATES, isEditable, STATE_LABEL, isReviewState } from '$lib/review-transitions';
 import type { CreateProjectInput } from '$lib/schemas/projects';
@@ -15,7 +16,7 @@ import type { CreateProjectInput } from '$lib/schemas/projects';
 export type { Prediction };
 
 export type Project = typeof projects.$inferSelect;
-export type PersonRef = { id: string; name: string; email: string };
+export type { PersonRef };
 
 export type Verdict = {
 	/** pass / fail against the leakage target (worst case), or none when no target is set. */
@@ -64,12 +65,6 @@ export function verdict(p: Prediction, r: Requirement): Verdict {
 	return { leakage, drop, overall };
 }
 
-async function personRefs(ids: (string | null)[], tx: DbOrTx = db): Promise<Map<string, PersonRef>> {
-	const wanted = [...new Set(ids.filter((x): x is string => !!x))];
-	if (!wanted.length) return new Map();
-	const rows = await tx.select({ id: users.id, name: users.name, email: users.email }).from(users).where(inArray(users.id, wanted));
-	return new Map(rows.map((u) => [u.id, { id: u.id, email: u.email, name: u.name ?? u.email }]));
-}
 
 async function resolvePeople(input: CreateProjectInput, tx: DbOrTx) {
 	let lead: people.Person | null = null;
@@ -110,9 +105,17 @@ export async function create(input: CreateProjectInput, actorId: string): Promis
 
 export type ProjectSummary = Project & { lead: PersonRef | null; entryCount: number };
 
-export async function list(filter: { state?: string } = {}): Promise<ProjectSummary[]> {
-	const where = filter.state && isReviewState(filter.state) ? eq(projects.state, filter.state) : undefined;
-	const rows = await db.select().from(projects).where(where).orderBy(desc(projects.updatedAt), desc(projects.id)).limit(500);
+/** Projects, newest first; `memberId` keeps those the person belongs to, `open` those whose shortlist may change. */
+export async function list(filter: { state?: string; memberId?: string; open?: boolean } = {}): Promise<ProjectSummary[]> {
+	const conditions: SQL[] = [];
+	if (filter.state && isReviewState(filter.state)) conditions.push(eq(projects.state, filter.state));
+	if (filter.open) conditions.push(inArray(projects.state, [...EDITABLE_STATES]));
+	if (filter.memberId)
+		conditions.push(sql`exists (select 1 from ${projectMembers} where ${projectMembers.projectId} = ${projects.id} and ${projectMembers.userId} = ${filter.memberId})`);
+	const rows = await db
+		.select()
+		.from(projects)
+		.where(conditions.length ? and(...conditions) : undefined).orderBy(desc(projects.updatedAt), desc(projects.id)).limit(500);
 	const ids = rows.map((r) => r.id);
 	const counts = ids.length
 		? await db
@@ -266,14 +269,15 @@ export async function removeEntry(projectId: number, partId: number, actorId: st
 	});
 }
 
-export async function addMember(projectId: number, email: string, actorId: string) {
-	await db.transaction(async (tx) => {
+export async function addMember(projectId: number, email: string, actorId: string): Promise<PersonRef> {
+	return db.transaction(async (tx) => {
 		await find(projectId, tx);
 		const person = await people.findByEmail(email, tx);
 		if (!person) throw new DomainError(422, `No person with the address ${email}.`, [{ path: 'email', message: `No person with the address ${email}.` }]);
 		const [row] = await tx.insert(projectMembers).values({ projectId, userId: person.id }).onConflictDoNothing().returning();
 		if (!row) throw new DomainError(409, `${person.name} is already a member.`, [{ path: 'email', message: 'Already a member.' }]);
 		await recordAudit(tx, { actorId, action: 'project.member-added', entity: 'project', entityId: projectId, detail: { email: person.email } });
+		return { id: person.id, name: person.name, email: person.email };
 	});
 }
 
@@ -289,7 +293,9 @@ const AUDIT_WORDS: Record<string, (d: Record<string, unknown>) => string> = {
 	'project.created': () => 'created the project',
 	'shortlist.added': (d) => `added ${String(d.partNumber ?? 'a part')} to the shortlist${d.note ? ` (“${String(d.note)}”)` : ''}`,
 	'shortlist.removed': (d) => `removed ${String(d.partNumber ?? 'a part')} from the shortlist`,
-	'project.member-added': (d) => `added ${String(d.email ?? 'someone')} as a member`
+	'project.member-added': (d) => `added ${String(d.email ?? 'someone')} as a member`,
+	'project.member-removed': (d) => `removed ${String(d.name ?? d.email ?? 'someone')} from the project${d.wasLead ? ' (they were its lead; any lead now decides)' : ''}`,
+	'project.lead-changed': (d) => (d.to ? `named ${String(d.toName ?? d.to)} the lead` : 'let any lead decide')
 };
 
 /** Who did what, newest first: shortlist and membership changes, and every review step. */

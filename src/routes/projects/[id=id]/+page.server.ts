@@ -5,6 +5,8 @@ import { requirePermission, requireRole } from '$lib/server/guards';
 import * as projects from '$lib/server/projects';
 import * as review from '$lib/server/review';
 import * as people from '$lib/server/people';
+import * as projectPeople from '$lib/server/project-people';
+import { projectPatchSchema } from '$lib/schemas/project-people';
 import { reviewSchema } from '$lib/schemas/projects';
 import { email } from '$lib/schemas/people';
 import { availableActions, isEditable } from '$lib/review-transitions';
@@ -48,6 +50,8 @@ export const load: PageServerLoad = async (event) => {
 	const resource = review.resourceOf(project, events);
 	const decision = review.latestDecision(events);
 	const leadRef = project.leadId ? await people.findById(project.leadId) : null;
+	const canPeople = can(user, 'project:people');
+	const leads = canPeople ? (await people.listWithRole('lead')).map((l) => ({ email: l.email, name: l.name })) : [];
 	return {
 		project,
 		entries,
@@ -59,6 +63,8 @@ export const load: PageServerLoad = async (event) => {
 		activity,
 		actions: availableActions(user, project.state, resource),
 		canEdit: can(user, 'shortlist:edit') && isEditable(project.state),
+		canPeople,
+		leads,
 		rankHref: rankLink(project.requirement)
 	};
 };
@@ -99,7 +105,7 @@ export const actions: Actions = {
 		}
 	},
 	member: async (event) => {
-		const user = requirePermission(event, 'shortlist:edit');
+		const user = requirePermission(event, 'project:people');
 		const values = { email: String((await event.request.formData()).get('email') ?? '') };
 		const parsed = email.safeParse(values.email);
 		if (!parsed.success) return fail(400, { form: 'member', values, error: parsed.error.issues[0].message, message: '' });
@@ -108,6 +114,30 @@ export const actions: Actions = {
 			return { form: 'member', done: `${parsed.data} is now a member.` };
 		} catch (e) {
 			return problem(e, 'member', values);
+		}
+	},
+	removeMember: async (event) => {
+		const user = requirePermission(event, 'project:people');
+		const values = { email: String((await event.request.formData()).get('email') ?? '') };
+		const parsed = email.safeParse(values.email);
+		if (!parsed.success) return fail(400, { form: 'people', values, error: parsed.error.issues[0].message, message: '' });
+		try {
+			await projectPeople.removeMember(id(event), parsed.data, user, process.env.ORIGIN ?? event.url.origin);
+			return { form: 'people', done: `${parsed.data} is no longer a member.` };
+		} catch (e) {
+			return problem(e, 'people', values);
+		}
+	},
+	lead: async (event) => {
+		const user = requirePermission(event, 'project:people');
+		const values = { leadEmail: String((await event.request.formData()).get('leadEmail') ?? '') };
+		const parsed = projectPatchSchema.safeParse(values);
+		if (!parsed.success) return fail(400, { form: 'lead', values, error: parsed.error.issues[0].message, message: '' });
+		try {
+			await projectPeople.changeLead(id(event), parsed.data.leadEmail, user, process.env.ORIGIN ?? event.url.origin);
+			return { form: 'lead', done: parsed.data.leadEmail ? `${parsed.data.leadEmail} now decides.` : 'Any lead now decides.' };
+		} catch (e) {
+			return problem(e, 'lead', values);
 		}
 	},
 	review: async (event) => {

@@ -1,11 +1,14 @@
 import { json } from '@sveltejs/kit';
-import { endpoint } from '$lib/server/api';
+import type { RequestEvent } from '@sveltejs/kit';
+import { endpoint, readJson } from '$lib/server/api';
 import { requirePermission } from '$lib/server/guards';
 import * as projects from '$lib/server/projects';
 import * as review from '$lib/server/review';
+import * as projectPeople from '$lib/server/project-people';
+import { projectPatchSchema } from '$lib/schemas/project-people';
 
-export const GET = endpoint(async (event) => {
-	requirePermission(event, 'project:read');
+/** The project as GET answers it (PATCH answers the same after its change). */
+async function full(event: RequestEvent) {
 	const project = await projects.find(Number(event.params.id));
 	const [entries, members, events] = await Promise.all([projects.entries(project), projects.members(project.id), review.events(project.id)]);
 	const decision = review.latestDecision(events);
@@ -34,4 +37,17 @@ export const GET = endpoint(async (event) => {
 			? review.changedSince(decision.snapshot, entries).map((c) => ({ junctionId: c.partId, partNumber: c.partNumber, then: c.then.prediction, now: c.now?.prediction ?? null }))
 			: []
 	});
+}
+
+export const GET = endpoint(async (event) => {
+	requirePermission(event, 'project:read');
+	return full(event);
+});
+
+// Names the lead who decides ({ leadEmail }, null: any lead), also while a review is open.
+export const PATCH = endpoint(async (event) => {
+	const user = requirePermission(event, 'project:people');
+	const { leadEmail } = await readJson(event, projectPatchSchema);
+	await projectPeople.changeLead(Number(event.params.id), leadEmail, user, process.env.ORIGIN ?? event.url.origin);
+	return full(event);
 });

@@ -5,8 +5,10 @@ import * as projects from '$lib/server/projects';
 import { createProjectSchema } from '$lib/schemas/projects';
 
 export const GET = endpoint(async (event) => {
-	requirePermission(event, 'project:read');
-	const items = await projects.list({ state: event.url.searchParams.get('state') ?? undefined });
+	const user = requirePermission(event, 'project:read');
+	const q = event.url.searchParams;
+	// ?mine=1: projects the caller is a member of; ?open=1: those whose shortlist may still change.
+	const items = await projects.list({ state: q.get('state') ?? undefined, memberId: q.get('mine') === '1' ? user.id : undefined, open: q.get('open') === '1' });
 	return json({
 		items: items.map((p) => ({
 			id: p.id,

@@ -1,5 +1,7 @@
-import { test as base, expect, type Page } from '@playwright/test';
+import { test as base, expect, type BrowserContext, type Page } from '@playwright/test';
 import { mkdirSync } from 'node:fs';
+import { randomBytes } from 'node:crypto';
+import postgres from 'postgres';
 
 export const CATCHER_URL = process.env.MAIL_CATCHER_URL ?? 'http://127.0.0.1:2536';
 export const SCREENSHOTS = 'tests/e2e/screenshots';
@@ -52,3 +54,22 @@ export async function screenshot(page: Page, name: string) {
 
 export const test = base;
 export { expect };
+
+/**
+ * A signed-in browser context without going through the mailbox: a session row written as
+ * Auth.js writes it after a sign-in, and its cookie. For specs about other screens, so the
+ * per-address limit on sign-in links is left to the specs that test signing in.
+ */
+export async function sessionFor(context: BrowserContext, email: string): Promise<void> {
+	const sql = postgres(process.env.DATABASE_URL!, { max: 1, onnotice: () => {} });
+	try {
+		const token = randomBytes(24).toString('hex');
+		const [user] = await sql`select id from users where email = ${email}`;
+		if (!user) throw new Error(`no person ${email}: was the seed loaded?`);
+		await sql`insert into sessions (session_token, user_id, expires) values (${token}, ${user.id}, ${new Date(Date.now() + 3600_000)})`;
+		const url = new URL(test.info().project.use.baseURL ?? 'http://127.0.0.1:3100');
+		await context.addCookies([{ name: 'authjs.session-token', value: token, domain: url.hostname, path: '/', httpOnly: true, sameSite: 'Lax' }]);
+	} finally {
+		await sql.end();
+	}
+}

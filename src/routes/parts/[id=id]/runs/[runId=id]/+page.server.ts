@@ -15,7 +15,7 @@ export const load: PageServerLoad = async (event) => {
 	const { partId, runId } = ids(event);
 	const run = await runChanges.runDetailOr404(partId, runId);
 	const part = await catalogue.get(partId);
-	// Each fit version drawn at the run's temperature over the measured span.
+	// The latest fit versions, each drawn at the temperature it was fitted at, over the measured span.
 	const vs = run.points.map((p) => p[0]);
 	const lo = Math.min(...vs);
 	const hi = Math.max(...vs);
@@ -23,7 +23,7 @@ export const load: PageServerLoad = async (event) => {
 		version: f.version,
 		current: f.current,
 		points: Array.from({ length: 121 }, (_, k) => lo + ((hi - lo) * k) / 120)
-			.map((v) => ({ x: v, y: currentMagnitude(f.model, part!.material, v, run.temperatureC) }))
+			.map((v) => ({ x: v, y: currentMagnitude(f.model, part!.material, v, f.range.temperatureC) }))
 			.filter((p) => p.y > 0)
 	}));
 	return {

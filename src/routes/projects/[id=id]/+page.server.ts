@@ -78,6 +78,22 @@ function problem(e: unknown, form: string, values: Record<string, string>) {
 
 const id = (event: RequestEvent) => Number(event.params.id);
 
+/** A form naming one person by address (adding or removing a member): parse, act, say what happened. */
+function byEmail(form: string, act: (event: RequestEvent, user: App.User, address: string) => Promise<unknown>, done: (address: string) => string) {
+	return async (event: RequestEvent) => {
+		const user = requirePermission(event, 'project:people');
+		const values = { email: String((await event.request.formData()).get('email') ?? '') };
+		const parsed = email.safeParse(values.email);
+		if (!parsed.success) return fail(400, { form, values, error: parsed.error.issues[0].message, message: '' });
+		try {
+			await act(event, user, parsed.data);
+			return { form, done: done(parsed.data) };
+		} catch (e) {
+			return problem(e, form, values);
+		}
+	};
+}
+
 export const actions: Actions = {
 	add: async (event) => {
 		const user = requirePermission(event, 'shortlist:edit');
@@ -104,30 +120,12 @@ export const actions: Actions = {
 			return problem(e, 'remove', {});
 		}
 	},
-	member: async (event) => {
-		const user = requirePermission(event, 'project:people');
-		const values = { email: String((await event.request.formData()).get('email') ?? '') };
-		const parsed = email.safeParse(values.email);
-		if (!parsed.success) return fail(400, { form: 'member', values, error: parsed.error.issues[0].message, message: '' });
-		try {
-			await projects.addMember(id(event), parsed.data, user.id);
-			return { form: 'member', done: `${parsed.data} is now a member.` };
-		} catch (e) {
-			return problem(e, 'member', values);
-		}
-	},
-	removeMember: async (event) => {
-		const user = requirePermission(event, 'project:people');
-		const values = { email: String((await event.request.formData()).get('email') ?? '') };
-		const parsed = email.safeParse(values.email);
-		if (!parsed.success) return fail(400, { form: 'people', values, error: parsed.error.issues[0].message, message: '' });
-		try {
-			await projectPeople.removeMember(id(event), parsed.data, user, process.env.ORIGIN ?? event.url.origin);
-			return { form: 'people', done: `${parsed.data} is no longer a member.` };
-		} catch (e) {
-			return problem(e, 'people', values);
-		}
-	},
+	member: byEmail('member', (event, user, address) => projects.addMember(id(event), address, user.id), (a) => `${a} is now a member.`),
+	removeMember: byEmail(
+		'people',
+		(event, user, address) => projectPeople.removeMember(id(event), address, user, process.env.ORIGIN ?? event.url.origin),
+		(a) => `${a} is no longer a member.`
+	),
 	lead: async (event) => {
 		const user = requirePermission(event, 'project:people');
 		const values = { leadEmail: String((await event.request.formData()).get('leadEmail') ?? '') };

@@ -126,10 +126,15 @@ describe('withdrawing a run', () => {
 	test('a second withdrawal, a re-fit and a correction of a withdrawn run are 409; putting it back restores the model', async () => {
 		const part = await newPart();
 		await upload(part.id, 'U1', forwardCsv({ IS: 2e-14 }));
-		const run = await upload(part.id, 'U2', forwardCsv({ IS: 5e-14 }));
+		const csv = forwardCsv({ IS: 5e-14 });
+		const run = await upload(part.id, 'U2', csv);
 		const base = `/api/v1/junctions/${part.id}/runs/${run}`;
 		const [modelBefore] = await db.select().from(partModels).where(eq(partModels.partId, part.id));
 		expect((await post(`${base}/withdraw`, { reason: 'wrong unit on the fixture' })).status).toBe(200);
+		// The same file uploaded again points to the withdrawn run rather than storing a copy.
+		const again = await api('POST', `/api/v1/junctions/${part.id}/runs?sample=U2&temperatureC=25`, { as: 'librarian', body: csv, headers: { 'content-type': 'text/csv' } });
+		expect(again.status).toBe(409);
+		expect(again.body.error.message).toMatch(new RegExp(`run ${run} .*later withdrawn`));
 		for (const [method, path, json] of [
 			['POST', `${base}/withdraw`, { reason: 'again' }],
 			['POST', `${base}/refit`, { excludeV: [0.4, 0.5] }],

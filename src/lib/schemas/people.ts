@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ROLES } from '$lib/permissions';
+import { returnPath } from '$lib/return-path';
 
 export const email = z
 	.string()
@@ -9,11 +10,8 @@ export const email = z
 
 export const signInForm = z.object({
 	email,
-	next: z
-		.string()
-		.optional()
-		// Only paths on this site, never another origin.
-		.transform((n) => (n && n.startsWith('/') && !n.startsWith('//') ? n : '/'))
+	// Only paths on this site, never another origin.
+	next: z.string().optional().transform((n) => returnPath(n))
 });
 
 export const inviteForm = z.object({

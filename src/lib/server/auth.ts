@@ -6,9 +6,11 @@ import type { RequestEvent } from '@sveltejs/kit';
 import { and, count, eq, gt } from 'drizzle-orm';
 import { db } from './db';
 import { accounts, sessions, users, verificationTokens } from './db/schema';
+import { readDeployment } from './deployment';
 import { sendNow } from './mail';
 import { escapeHtml } from './people';
 import * as people from './people';
+import { returnPath } from '$lib/return-path';
 
 export const SIGN_IN_LINK_MINUTES = 15;
 
@@ -27,7 +29,7 @@ const config: SvelteKitAuthConfig = {
 	pages: { signIn: '/signin', verifyRequest: '/signin/check-mail', error: '/signin' },
 	providers: [
 		Nodemailer({
-			server: process.env.SMTP_URL ?? 'smtp://127.0.0.1:2525',
+			server: readDeployment().smtpUrl,
 			from: process.env.MAIL_FROM ?? 'Junctionary <no-reply@junctionary.test>',
 			maxAge: SIGN_IN_LINK_MINUTES * 60,
 			async sendVerificationRequest({ identifier, url }) {
@@ -41,6 +43,11 @@ const config: SvelteKitAuthConfig = {
 		})
 	],
 	callbacks: {
+		// Where a sign-in link (or any Auth.js callback address) leads: a path on this site.
+		redirect({ url, baseUrl }) {
+			const path = url.startsWith(baseUrl + '/') ? url.slice(baseUrl.length) : url;
+			return baseUrl + returnPath(path);
+		},
 		// Only people an admin has added may sign in.
 		async signIn({ user }) {
 			return Boolean(user.email && (await people.findByEmail(user.email)));

@@ -1,14 +1,16 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requestSignInLink } from '$lib/server/auth';
 import { fieldErrors, signInForm } from '$lib/schemas/people';
-import { clientLimiter } from '$lib/server/rate-limit';
+import { allowSignInFrom } from '$lib/server/rate-limit';
+import { returnPath } from '$lib/return-path';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {
-	if (locals.user) redirect(303, url.searchParams.get('next') ?? '/');
+	const next = returnPath(url.searchParams.get('next'));
+	if (locals.user) redirect(303, next);
 	const error = url.searchParams.get('error');
 	return {
-		next: url.searchParams.get('next') ?? '/',
+		next,
 		signedOut: url.searchParams.has('signedOut'),
 		linkProblem:
 			error === 'Verification'
@@ -29,7 +31,7 @@ export const actions: Actions = {
 			return fail(400, { values: { email: String(form.email ?? '') }, errors: fieldErrors(parsed.error) });
 		}
 		const { email, next } = parsed.data;
-		if (!clientLimiter.allow(event.getClientAddress())) {
+		if (!(await allowSignInFrom(event.getClientAddress()))) {
 			return fail(429, { values: { email }, errors: { email: 'Too many sign-in requests from here; wait a few minutes.' } });
 		}
 		const outcome = await requestSignInLink(event, email, next);

@@ -6,7 +6,8 @@ import { STATUS_CODE, type Issue } from './http-error';
 export function apiError(status: number, message: string, issues?: Issue[]) {
 	return json(
 		{ error: { code: STATUS_CODE[status] ?? 'error', message, ...(issues?.length ? { issues } : {}) } },
-		{ status }
+		// An outage is short: scripts that honour Retry-After wait a few seconds and try again.
+		{ status, headers: status === 503 ? { 'retry-after': '5' } : {} }
 	);
 }
 
@@ -37,22 +38,51 @@ export function endpoint(handler: (event: RequestEvent) => Promise<Response> | R
 			if (isHttpError(e)) return apiError(e.status, e.body.message, e.body.issues);
 			if (e instanceof ZodError) return apiError(400, 'The request does not match the expected shape.', zodIssues(e));
 			if (e instanceof DomainError) return apiError(e.status, e.message, e.issues);
-			if (isDatabaseDown(e)) return apiError(503, 'The database is unavailable; try again shortly.');
+			if (isDatabaseDown(e)) return apiError(503, DATABASE_UNAVAILABLE);
 			throw e;
 		}
 	};
 }
 
-// Connection refused or lost, server shutting down or starting up.
-const DOWN_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'CONNECTION_CLOSED', 'CONNECTION_ENDED', 'CONNECTION_DESTROYED', 'CONNECT_TIMEOUT', '57P01', '57P02', '57P03']);
+/** The one plain answer, page or API, while PostgreSQL cannot be reached. */
+export const DATABASE_UNAVAILABLE =
+	'The catalogue database is unavailable for a moment; nothing you saved is lost. Try again shortly.';
 
-export function isDatabaseDown(e: unknown): boolean {
-	// Drizzle wraps driver errors: look at the cause too.
-	for (let err = e as { code?: string; cause?: unknown } | undefined, depth = 0; err && depth < 4; err = err.cause as typeof err, depth++) {
-		const code = err.code;
-		if (code && DOWN_CODES.has(code)) return true;
-	}
-	return false;
+// Socket-level failures (refused, reset, unreachable, name lookup) and the driver's own
+// connection errors (postgres.js: closed, ended, destroyed, connect timeout).
+const DOWN_CODES = new Set([
+	'ECONNREFUSED',
+	'ECONNRESET',
+	'ECONNABORTED',
+	'EPIPE',
+	'ETIMEDOUT',
+	'EHOSTUNREACH',
+	'ENETUNREACH',
+	'ENOTFOUND',
+	'EAI_AGAIN',
+	'CONNECTION_CLOSED',
+	'CONNECTION_ENDED',
+	'CONNECTION_DESTROYED',
+	'CONNECT_TIMEOUT'
+]);
+
+/**
+ * SQLSTATEs of a server that is going away or not there yet (PostgreSQL manual, Appendix A
+ * "Error codes"): class 08 connection exception, 53300 too_many_connections, 57P01
+ * admin_shutdown, 57P02 crash_shutdown, 57P03 cannot_connect_now, 57P05 idle session timeout.
+ */
+function isDownState(code: string): boolean {
+	return code.startsWith('08') || code === '53300' || code === '57P01' || code === '57P02' || code === '57P03' || code === '57P05';
+}
+
+/** True when the failure is PostgreSQL being unreachable, however the driver wrapped it. */
+export function isDatabaseDown(e: unknown, depth = 0): boolean {
+	if (!e || typeof e !== 'object' || depth > 6) return false;
+	const err = e as { code?: unknown; cause?: unknown; errors?: unknown };
+	if (typeof err.code === 'string' && (DOWN_CODES.has(err.code) || (/^[0-9A-Z]{5}$/.test(err.code) && isDownState(err.code)))) return true;
+	// Drizzle wraps driver errors (cause); Node reports several failed addresses at once (errors).
+	if (isDatabaseDown(err.cause, depth + 1)) return true;
+	return Array.isArray(err.errors) && err.errors.some((x) => isDatabaseDown(x, depth + 1));
 }
 
 /** JSON request bodies are small; sweeps travel as files with their own, larger limit. */

@@ -5,7 +5,13 @@
  * each change re-reads that one part and rebuilds the table shortly after. Whenever the
  * listening connection (re)connects, everything is re-read, so nothing missed while it
  * was down stays stale.
+ *
+ * The driver re-listens by itself after a lost connection, but gives up silently when the
+ * database is still down at that moment. So the cache checks that it can hear: every few
+ * seconds it sends itself a ping on the channel, and when a ping it sent does not come back
+ * it opens a new listening connection and re-reads everything.
  */
+import { randomBytes } from 'node:crypto';
 import type { Sql } from 'postgres';
 import { CatalogueTable, createModel, type JunctionModel, type PartRecord } from '$lib/junction';
 import { engineMaterial } from '$lib/catalogue/models';
@@ -114,6 +120,13 @@ export type ModelCacheOptions = {
 	rebuildDelayMs?: number;
 	/** Called when a part's stored model cannot be turned into an engine model. */
 	onSkip?: (partId: number, reason: string) => void;
+	/**
+	 * Opens a connection used only to listen. Given, a listener that stopped hearing is
+	 * replaced by a new one; without it the query client listens and is only re-asked.
+	 */
+	listener?: () => Sql;
+	/** How often the cache checks that it still hears its channel [ms]; 0 turns it off. */
+	hearingCheckMs?: number;
 };
 
 export class ModelCache {
@@ -123,6 +136,14 @@ export class ModelCache {
 	private rebuildTimer: ReturnType<typeof setTimeout> | null = null;
 	private pendingIds = new Set<number>();
 	private unlisten: (() => Promise<void>) | null = null;
+	private listenSql: Sql | null = null;
+	private hearingTimer: ReturnType<typeof setInterval> | null = null;
+	private readonly pingPrefix = `ping:${randomBytes(6).toString('hex')}:`;
+	private pingSent = 0;
+	private pingHeard = 0;
+	/** Set when a re-read failed: the next hearing check starts over. */
+	private stale = false;
+	private checking = false;
 	private listeners = new Set<() => void>();
 	/** Bumped on every rebuild; tests wait on it. */
 	generation = 0;
@@ -149,9 +170,20 @@ export class ModelCache {
 	}
 
 	private async start(): Promise<void> {
-		// onlisten runs on every (re)connection of the dedicated listening connection.
+		if (!this.unlisten) await this.listen();
+		await this.reloadAll();
+		const every = this.options.hearingCheckMs ?? 3000;
+		if (every > 0 && !this.hearingTimer) {
+			this.hearingTimer = setInterval(() => void this.checkHearing(), every);
+			this.hearingTimer.unref?.();
+		}
+	}
+
+	/** Starts listening; onlisten runs again on every reconnection of that connection. */
+	private async listen(): Promise<void> {
 		let first = true;
-		const meta = await this.sql.listen(
+		this.listenSql = this.options.listener?.() ?? this.sql;
+		const meta = await this.listenSql.listen(
 			MODEL_CHANNEL,
 			(payload) => this.changed(payload),
 			() => {
@@ -159,11 +191,44 @@ export class ModelCache {
 					first = false;
 					return;
 				}
-				void this.reloadAll();
+				this.reloadAllSoon();
 			}
 		);
 		this.unlisten = meta.unlisten;
-		await this.reloadAll();
+	}
+
+	/**
+	 * One tick of the hearing check: if the last ping went out but never came back, the
+	 * listener is deaf — replace it and re-read everything; then send the next ping.
+	 */
+	private async checkHearing(): Promise<void> {
+		if (this.checking) return;
+		this.checking = true;
+		try {
+			if (this.pingSent > this.pingHeard || this.stale) {
+				const old = this.listenSql;
+				this.unlisten = null;
+				this.listenSql = null;
+				if (old && old !== this.sql) await old.end({ timeout: 0 }).catch(() => {});
+				await this.listen();
+				await this.reloadAll();
+				this.stale = false;
+				this.pingHeard = this.pingSent;
+			}
+			this.pingSent += 1;
+			await this.sql`select pg_notify(${MODEL_CHANNEL}, ${this.pingPrefix + this.pingSent})`;
+		} catch {
+			// The database is unavailable: the next tick tries again.
+		} finally {
+			this.checking = false;
+		}
+	}
+
+	/** Re-reads everything in the background; a failure is retried by the hearing check. */
+	private reloadAllSoon(): void {
+		this.reloadAll().catch(() => {
+			this.stale = true;
+		});
 	}
 
 	/** Re-reads every part and rebuilds the table now. */
@@ -193,13 +258,21 @@ export class ModelCache {
 	}
 
 	private changed(payload: string): void {
+		if (payload.startsWith('ping:')) {
+			if (payload.startsWith(this.pingPrefix)) this.pingHeard = Math.max(this.pingHeard, Number(payload.slice(this.pingPrefix.length)));
+			return;
+		}
 		const id = Number(payload);
 		if (!Number.isInteger(id) || id <= 0) return;
 		this.pendingIds.add(id);
 		if (this.rebuildTimer) return;
 		this.rebuildTimer = setTimeout(() => {
 			this.rebuildTimer = null;
-			void this.applyPending();
+			// Lost to an outage: the listener reconnects (or the hearing check notices) and
+			// re-reads everything, these parts included.
+			this.applyPending().catch(() => {
+				this.stale = true;
+			});
 		}, this.options.rebuildDelayMs ?? 25);
 	}
 
@@ -249,8 +322,12 @@ export class ModelCache {
 	/** Stops listening (tests and shutdown). */
 	async close(): Promise<void> {
 		if (this.rebuildTimer) clearTimeout(this.rebuildTimer);
+		if (this.hearingTimer) clearInterval(this.hearingTimer);
+		this.hearingTimer = null;
 		await this.unlisten?.();
 		this.unlisten = null;
+		if (this.listenSql && this.listenSql !== this.sql) await this.listenSql.end({ timeout: 1 });
+		this.listenSql = null;
 	}
 }
 
@@ -259,9 +336,10 @@ let shared: ModelCache | null = null;
 /** This process's cache over the app's database pool, ready to use. */
 export async function modelCache(): Promise<ModelCache> {
 	if (!shared) {
-		const { client } = await import('./db');
+		const { client, listeningClient } = await import('./db');
 		shared = new ModelCache(client, {
-			onSkip: (id, reason) => console.warn(`model cache: part ${id} left out: ${reason}`)
+			onSkip: (id, reason) => console.warn(`model cache: part ${id} left out: ${reason}`),
+			listener: listeningClient
 		});
 	}
 	await shared.ready();

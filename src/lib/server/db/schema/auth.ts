@@ -54,7 +54,8 @@ export const sessions = pgTable(
 			.references(() => users.id, { onDelete: 'cascade' }),
 		expires: timestamp('expires', { withTimezone: true, mode: 'date' }).notNull()
 	},
-	(t) => [index('sessions_user_idx').on(t.userId)]
+	// Expired sessions are pruned by expiry (src/lib/server/prune.ts).
+	(t) => [index('sessions_user_idx').on(t.userId), index('sessions_expires_idx').on(t.expires)]
 );
 
 export const verificationTokens = pgTable(
@@ -64,9 +65,22 @@ export const verificationTokens = pgTable(
 		token: text('token').notNull(),
 		expires: timestamp('expires', { withTimezone: true, mode: 'date' }).notNull()
 	},
-	(t) => [primaryKey({ columns: [t.identifier, t.token] })]
+	(t) => [primaryKey({ columns: [t.identifier, t.token] }), index('verification_tokens_expires_idx').on(t.expires)]
 );
 
+/**
+ * Fixed-window request counters shared by every app process (sign-in requests per client
+ * address): one row per key, counted and reset by a single upsert on the database clock.
+ */
+export const rateLimits = pgTable(
+	'rate_limits',
+	{
+		key: text('key').primaryKey(),
+		hits: integer('hits').notNull(),
+		windowEndsAt: timestamp('window_ends_at', { withTimezone: true, mode: 'date' }).notNull()
+	},
+	(t) => [index('rate_limits_window_idx').on(t.windowEndsAt)]
+);
 
 export const userRoles = pgTable(
 	'user_roles',

@@ -5,7 +5,9 @@ import { vitePreprocess } from '@sveltejs/vite-plugin-svelte';
 const config = {
 	preprocess: vitePreprocess(),
 	kit: {
-		adapter: adapter(),
+		// npm start, npm test and npm run bench each build into their own folder, so one
+		// never replaces the files another's running server is reading.
+		adapter: adapter({ out: process.env.BUILD_DIR ?? 'build' }),
 		// The origin check lives in hooks.server.ts (src/lib/server/csrf.ts): the same rule,
 		// but API calls carrying a Bearer token may post multipart files without an Origin.
 		csrf: { trustedOrigins: ['*'] },

@@ -40,7 +40,7 @@ export default defineConfig({
 					environment: 'node',
 					include: ['tests/faults/**/*.spec.ts'],
 					fileParallelism: false,
-					testTimeout: 120_000,
+					testTimeout: 300_000,
 					hookTimeout: 60_000
 				}
 			}

@@ -5,6 +5,10 @@
 source "$(dirname "$0")/lib.sh"
 
 what=${1:-all}
+if ! claim_checkout bench; then
+	echo "Another benchmark is running from this checkout; wait for it to finish." >&2
+	exit 1
+fi
 ensure_debian_packages postgresql curl chromium
 trap stop_stack INT TERM EXIT
 start_stack pg-bench "${BENCH_PGPORT:-54349}" junctionary_bench "${BENCH_PORT:-3200}" \
@@ -12,7 +16,7 @@ start_stack pg-bench "${BENCH_PGPORT:-54349}" junctionary_bench "${BENCH_PORT:-3
 (cd "$ROOT" && npx tsx seed/scale.ts "${BENCH_PARTS:-10000}")
 # The load test makes hundreds of connections' worth of requests: give the pool room.
 export DB_POOL_MAX=${DB_POOL_MAX:-20} OUTBOX_WORKER=0
-start_app "$DATA/bench-server.log"
+start_app "$DATA/builds/bench" "$DATA/bench-server.log"
 cd "$ROOT"
 case "$what" in
 	load) npx tsx tests/bench/load.ts ;;

@@ -27,21 +27,56 @@ ensure_debian_packages() {
 
 ensure_node_modules() {
 	if [ ! -d "$ROOT/node_modules" ] || [ "$ROOT/package-lock.json" -nt "$ROOT/node_modules/.package-lock.json" ]; then
+		# npm ci replaces node_modules, which a running npm start still loads from.
+		if [ "${CLAIMED:-}" != start ] && ! flock -n "$DATA/start.lock" true 2>/dev/null; then
+			echo "The npm dependencies changed, but npm start is running from this checkout and uses them: stop it first." >&2
+			exit 1
+		fi
 		log "installing npm dependencies (npm ci)"
 		(cd "$ROOT" && npm ci --no-audit --no-fund --loglevel=error)
 	fi
 	(cd "$ROOT" && npx svelte-kit sync >/dev/null)
 }
 
-# AUTH_SECRET is made once per clone and kept in the git-ignored .env.
+# load_env_file: settings from the git-ignored .env that the shell has not set already
+# (parsed by Node's util.parseEnv, as the CLI reads the same file).
+load_env_file() {
+	local envfile="$ROOT/.env"
+	[ -f "$envfile" ] || return 0
+	eval "$(node -e '
+		const { parseEnv } = require("node:util");
+		const vars = parseEnv(require("node:fs").readFileSync(process.argv[1], "utf8"));
+		for (const [k, v] of Object.entries(vars)) {
+			if (/^[A-Za-z_][A-Za-z0-9_]*$/.test(k) && !(k in process.env)) console.log(`export ${k}=${JSON.stringify(v).replace(/[$`]/g, "\\$&")}`);
+		}' "$envfile")"
+}
+
+# AUTH_SECRET is made once per clone and kept in the git-ignored .env (unless the
+# environment gives one).
 ensure_secret() {
 	local envfile="$ROOT/.env"
+	if [ -n "${AUTH_SECRET:-}" ]; then export AUTH_SECRET; return 0; fi
 	if [ ! -f "$envfile" ] || ! grep -q '^AUTH_SECRET=' "$envfile"; then
 		log "generating AUTH_SECRET into .env"
 		echo "AUTH_SECRET=$(node -e "console.log(require('crypto').randomBytes(32).toString('base64url'))")" >>"$envfile"
+		chmod 600 "$envfile"
 	fi
 	AUTH_SECRET=$(grep '^AUTH_SECRET=' "$envfile" | tail -n1 | cut -d= -f2-)
 	export AUTH_SECRET
+}
+
+# claim_checkout NAME: one `npm start` (or test run, or benchmark) per checkout at a time.
+# Holds an flock on .data/NAME.lock for as long as this script runs (the kernel releases it
+# when the script ends, however it ends). Returns 1 when another run holds it.
+claim_checkout() {
+	exec {CLAIM_FD}>"$DATA/$1.lock"
+	flock -n "$CLAIM_FD" && CLAIMED=$1
+}
+
+# build_app DIR: the production build into DIR (adapter-node's out). Builds share
+# .svelte-kit/output, so they take turns; a running server's own folder is never touched.
+build_app() {
+	(cd "$ROOT" && BUILD_DIR="$1" flock "$DATA/build.lock" npx vite build --logLevel warn)
 }
 
 # PostgreSQL refuses to run as root. When we are root, run its tools as the postgres
@@ -74,8 +109,12 @@ start_postgres() {
 	else
 		log "starting PostgreSQL on 127.0.0.1:$port"
 		touch "$DATA/$name.log"; [ "$(id -u)" -eq 0 ] && chown postgres:postgres "$DATA/$name.log"
-		as_pg "$PGBIN/pg_ctl" -D "$PGDATA_DIR" -l "$DATA/$name.log" -w -t 60 \
-			-o "-p $port -k $sock -c listen_addresses=127.0.0.1 -c max_connections=300" start >/dev/null
+		# PostgreSQL may outlive this script: it must not inherit the checkout's claim lock.
+		(
+			if [ -n "${CLAIM_FD:-}" ]; then eval "exec $CLAIM_FD>&-"; fi
+			as_pg "$PGBIN/pg_ctl" -D "$PGDATA_DIR" -l "$DATA/$name.log" -w -t 60 \
+				-o "-p $port -k $sock -c listen_addresses=127.0.0.1 -c max_connections=300" start >/dev/null
+		)
 		PG_STARTED_HERE=1
 	fi
 	export PG_STARTED_HERE PGDATA_DIR
@@ -110,7 +149,10 @@ start_mail_catcher() {
 		CATCHER_PID=
 		return
 	fi
-	(cd "$ROOT" && MAIL_SMTP_PORT=$smtp MAIL_HTTP_PORT=$http exec node --import tsx scripts/mail-catcher.ts) \
+	(
+		if [ -n "${CLAIM_FD:-}" ]; then eval "exec $CLAIM_FD>&-"; fi
+		cd "$ROOT" && MAIL_SMTP_PORT=$smtp MAIL_HTTP_PORT=$http exec node --import tsx scripts/mail-catcher.ts
+	) \
 		>"$DATA/mail-catcher-$smtp.log" 2>&1 &
 	CATCHER_PID=$!
 	local i
@@ -146,7 +188,8 @@ wait_for_http() {
 
 # start_stack CLUSTER PGPORT DB PORT SMTP_PORT HTTP_PORT: a fresh database on a project
 # cluster, migrated and seeded, the mail catcher, and the environment the app reads.
-# Used by npm test and the benchmarks (npm start keeps its database between runs).
+# Used by npm test and the benchmarks (npm start keeps its database between runs). They
+# run the demo: no SMTP_URL, so mail goes to the local catcher on SMTP_PORT.
 start_stack() {
 	local cluster=$1 pgport=$2 db=$3 port=$4 smtp=$5 http=$6
 	ensure_node_modules
@@ -155,25 +198,27 @@ start_stack() {
 	ensure_database "$pgport" "$db" fresh
 	export PG_CLUSTER=$cluster PGPORT=$pgport
 	export DATABASE_URL="postgres://junctionary@127.0.0.1:$pgport/$db"
-	export SMTP_URL="smtp://127.0.0.1:$smtp"
+	unset SMTP_URL
+	export MAIL_SMTP_PORT=$smtp MAIL_HTTP_PORT=$http
 	export MAIL_CATCHER_URL="http://127.0.0.1:$http"
-	export DEV_MAILBOX=1
 	export BODY_SIZE_LIMIT=${BODY_SIZE_LIMIT:-16M}
 	export HOST=127.0.0.1 PORT=$port ORIGIN="http://127.0.0.1:$port" APP_URL="http://127.0.0.1:$port"
 	export NODE_ENV=production
-	# Every test signs in from 127.0.0.1: lift the per-client sign-in limit (tested in units).
+	# Every test signs in from 127.0.0.1: lift the per-client sign-in limit (the scale-out
+	# test checks it with servers of its own).
 	export SIGNIN_PER_CLIENT=${SIGNIN_PER_CLIENT:-1000}
 	migrate
 	(cd "$ROOT" && npx tsx seed/index.ts)
 	start_mail_catcher "$smtp" "$http"
 }
 
-# start_app LOGFILE: build and serve the app in the background (SERVER_PID), wait for it.
+# start_app DIR LOGFILE: build into DIR and serve it in the background (SERVER_PID), wait for it.
 start_app() {
-	(cd "$ROOT" && npx vite build --logLevel warn) || return 1
-	(cd "$ROOT" && exec node build) >"$1" 2>&1 &
+	build_app "$1" || return 1
+	export BUILD_DIR=$1
+	(cd "$ROOT" && exec node "$1") >"$2" 2>&1 &
 	SERVER_PID=$!
-	wait_for_http "$APP_URL/api/v1/health" || { tail -30 "$1"; return 1; }
+	wait_for_http "$APP_URL/api/v1/health" || { tail -30 "$2"; return 1; }
 }
 
 # stop_stack: what start_stack and start_app started (called from a trap).

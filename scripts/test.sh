@@ -3,6 +3,10 @@
 # then type checks, unit, integration, fault and browser tests. Ends with "N passed, N failed".
 source "$(dirname "$0")/lib.sh"
 
+if ! claim_checkout test; then
+	echo "Another npm test is running from this checkout (it owns the test cluster and ports); wait for it to finish." >&2
+	exit 1
+fi
 ensure_debian_packages postgresql curl chromium ngspice fonts-dejavu-core
 trap stop_stack INT TERM EXIT
 start_stack pg-test "${TEST_PGPORT:-54339}" junctionary_test "${TEST_PORT:-3100}" \
@@ -24,7 +28,8 @@ log "unit tests"
 npx vitest run --project unit --reporter=default --reporter=json --outputFile="$RESULTS/unit.json" || status=1
 
 log "building and starting the app"
-start_app "$DATA/test-server.log" || status=1
+# Its own build folder: a running npm start (or benchmark) keeps its files.
+start_app "$DATA/builds/test" "$DATA/test-server.log" || status=1
 
 log "integration tests (PostgreSQL on :$PGPORT, app on :$PORT)"
 npx vitest run --project integration --reporter=default --reporter=json --outputFile="$RESULTS/integration.json" || status=1

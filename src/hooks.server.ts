@@ -1,19 +1,45 @@
 import { redirect, type Handle, type HandleServerError, type ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
+import { dev } from '$app/environment';
 import { authHandle, SESSION_COOKIES } from '$lib/server/auth';
-import { apiError, isDatabaseDown } from '$lib/server/api';
+import { apiError, DATABASE_UNAVAILABLE, isDatabaseDown } from '$lib/server/api';
 import { asJsonApiError } from '$lib/server/api-errors';
 import { client } from '$lib/server/db';
+import { printableUrl } from '$lib/server/db/locate';
+import { applyMigrations } from '$lib/server/db/migrate';
 import { isCrossSiteFormWrite } from '$lib/server/csrf';
+import { DEMO_BAND, isDemo, startRefusal } from '$lib/server/deployment';
 import { startOutboxWorker, stopOutboxWorker } from '$lib/server/mail';
+import { startPruning, stopPruning } from '$lib/server/prune';
 import * as people from '$lib/server/people';
 import * as tokens from '$lib/server/tokens';
 
+/** Stops the process with a message an operator can act on (no stack trace). */
+function refuseToStart(message: string): never {
+	console.error(`\n${message}\n`);
+	process.exit(1);
+}
+
 export const init: ServerInit = async () => {
-	if (process.env.OUTBOX_WORKER !== '0') startOutboxWorker();
+	// The development server listens where vite.config.ts says (loopback).
+	if (!dev) {
+		const refusal = startRefusal();
+		if (refusal) refuseToStart(refusal);
+	}
+	if (process.env.DATABASE_URL && process.env.MIGRATE_ON_START !== '0') {
+		try {
+			await applyMigrations(process.env.DATABASE_URL);
+		} catch (e) {
+			const reason = e instanceof Error ? e.message : String(e);
+			refuseToStart(`Junctionary could not apply its database migrations to ${printableUrl(process.env.DATABASE_URL)}: ${reason}`);
+		}
+	}
+	if (process.env.OUTBOX_WORKER !== '0') startOutboxWorker(Number(process.env.OUTBOX_EVERY_MS ?? 2000));
+	startPruning();
 	// node build keeps running while the pool is open: close it on shutdown.
 	process.on('sveltekit:shutdown', async () => {
 		stopOutboxWorker();
+		stopPruning();
 		await client.end({ timeout: 5 });
 	});
 };
@@ -25,7 +51,7 @@ function isPublic(path: string): boolean {
 		path.startsWith('/signin/') ||
 		path.startsWith('/auth/') ||
 		path === '/api/v1/health' ||
-		(process.env.DEV_MAILBOX === '1' && path.startsWith('/dev/mailbox'))
+		(isDemo() && path.startsWith('/dev/mailbox'))
 	);
 }
 
@@ -52,13 +78,11 @@ const identify: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-const UNAVAILABLE = 'The catalogue database is unavailable for a moment; nothing you saved is lost. Try again shortly.';
-
 /** 503 while PostgreSQL is down: JSON for the API, a plain page for people. */
 function unavailable(path: string): Response {
-	if (path.startsWith('/api/')) return apiError(503, UNAVAILABLE);
+	if (path.startsWith('/api/')) return apiError(503, DATABASE_UNAVAILABLE);
 	return new Response(
-		`<!doctype html><meta charset="utf-8"><title>Unavailable · Junctionary</title><body style="font-family:sans-serif;background:#f7f2e7;color:#2a2926;padding:3rem"><h1>Junctionary is catching its breath</h1><p>${UNAVAILABLE}</p><p><a href="">Reload</a></p>`,
+		`<!doctype html><meta charset="utf-8"><title>Unavailable · Junctionary</title><body style="font-family:sans-serif;background:#f7f2e7;color:#2a2926;padding:3rem">${isDemo() ? `<p style="background:#2a2926;color:#f7f2e7;padding:.3rem .6rem;display:inline-block">${DEMO_BAND}</p>` : ''}<h1>Junctionary is catching its breath</h1><p>${DATABASE_UNAVAILABLE}</p><p><a href="">Reload</a></p>`,
 		{ status: 503, headers: { 'content-type': 'text/html; charset=utf-8', 'retry-after': '5' } }
 	);
 }
@@ -112,7 +136,7 @@ export const handle = sequence(securityHeaders, apiErrors, originCheck, authHand
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (isDatabaseDown(error)) {
 		event.locals.databaseDown = true;
-		return { message: UNAVAILABLE, code: 'unavailable' };
+		return { message: DATABASE_UNAVAILABLE, code: 'unavailable' };
 	}
 	if (status >= 500) console.error(event.url.pathname, error);
 	return { message, code: status === 404 ? 'not_found' : 'internal' };

@@ -1,9 +1,11 @@
+import { DEMO_BAND, isDemo } from '$lib/server/deployment';
 import type { LayoutServerLoad } from './$types';
 
-// Pages get who is signed in and their roles: never the session token.
+// Pages get who is signed in and their roles: never the session token. A demo says so on
+// every page (the mailbox it points to holds everyone's sign-in links).
 export const load: LayoutServerLoad = ({ locals }) => ({
 	user: locals.user
 		? { id: locals.user.id, name: locals.user.name, email: locals.user.email, roles: locals.user.roles }
 		: null,
-	devMailbox: process.env.DEV_MAILBOX === '1'
+	demoBand: isDemo() ? DEMO_BAND : null
 });

@@ -1,5 +1,5 @@
 // Every route × every caller: anonymous → 401 or a sign-in redirect, a role without the
-// permission → 403, an allowed role → neither. The route tree is read from src/routes so a
+// permission → 403, an allowed role → neither, and never a 5xx. The route tree is read from src/routes so a
 // new route that nobody lists here fails this suite instead of shipping unguarded.
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
@@ -82,6 +82,8 @@ describe('role matrix', () => {
 				if (allowed(c, who)) {
 					expect(status, `${who} should get through`).not.toBe(401);
 					expect(status).not.toBe(403);
+					// Getting through to a crash is not getting through.
+					expect(status, `${who} got a server error`).toBeLessThan(500);
 					expect(location ?? '').not.toMatch(/^\/signin/);
 				} else if (who === 'anonymous') {
 					if (c.kind === 'api') expect(status).toBe(401);

@@ -2,6 +2,7 @@ import nodemailer, { type Transporter } from 'nodemailer';
 import { and, asc, eq, isNull, lte, sql } from 'drizzle-orm';
 import { db, type DbOrTx } from './db';
 import { mailOutbox } from './db/schema';
+import { readDeployment } from './deployment';
 
 export type Mail = { to: string; subject: string; text: string; html: string };
 
@@ -10,7 +11,8 @@ let transport: Transporter | null = null;
 
 function getTransport(): Transporter {
 	// Short timeouts: a missing mail server must fail fast and leave the message queued.
-	transport ??= nodemailer.createTransport(process.env.SMTP_URL ?? 'smtp://127.0.0.1:2525', {
+	// SMTP_URL for a team; the local catcher in a demo.
+	transport ??= nodemailer.createTransport(readDeployment().smtpUrl, {
 		connectionTimeout: 3000,
 		greetingTimeout: 3000,
 		socketTimeout: 5000

@@ -8,8 +8,10 @@ import { client } from '$lib/server/db';
 import { printableUrl } from '$lib/server/db/locate';
 import { applyMigrations } from '$lib/server/db/migrate';
 import { isCrossSiteFormWrite } from '$lib/server/csrf';
+import { returnPath } from '$lib/return-path';
 import { DEMO_BAND, isDemo, startRefusal } from '$lib/server/deployment';
 import { startOutboxWorker, stopOutboxWorker } from '$lib/server/mail';
+import { closeModelCache } from '$lib/server/model-cache';
 import { startPruning, stopPruning } from '$lib/server/prune';
 import * as people from '$lib/server/people';
 import * as tokens from '$lib/server/tokens';
@@ -40,6 +42,7 @@ export const init: ServerInit = async () => {
 	process.on('sveltekit:shutdown', async () => {
 		stopOutboxWorker();
 		stopPruning();
+		await closeModelCache();
 		await client.end({ timeout: 5 });
 	});
 };
@@ -98,6 +101,25 @@ const gate: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
+/**
+ * A callbackUrl on an Auth.js address (a sign-in link, say) is made a path on this site
+ * before Auth.js reads it: Auth.js answers a malformed one with a server error, and its
+ * redirect callback (auth.ts) only sees well-formed ones.
+ */
+const authReturnAddress: Handle = async ({ event, resolve }) => {
+	const raw = event.url.searchParams.get('callbackUrl');
+	if (raw !== null && event.url.pathname.startsWith('/auth/')) {
+		const origin = event.url.origin;
+		const safe = origin + returnPath(raw.startsWith(origin + '/') ? raw.slice(origin.length) : raw);
+		if (safe !== raw && origin + raw !== safe) {
+			const url = new URL(event.url);
+			url.searchParams.set('callbackUrl', safe);
+			redirect(303, url.pathname + url.search);
+		}
+	}
+	return resolve(event);
+};
+
 const originCheck: Handle = async ({ event, resolve }) => {
 	if (isCrossSiteFormWrite(event.request, event.url.origin)) {
 		const message = `Cross-site ${event.request.method} form submissions are forbidden`;
@@ -131,7 +153,7 @@ const apiErrors: Handle = async ({ event, resolve }) => {
 	return asJsonApiError(response, event.request.method, event.url.pathname);
 };
 
-export const handle = sequence(securityHeaders, apiErrors, originCheck, authHandle, identify, gate);
+export const handle = sequence(securityHeaders, apiErrors, originCheck, authReturnAddress, authHandle, identify, gate);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (isDatabaseDown(error)) {

@@ -3,12 +3,15 @@ import { expect, screenshot, signInAs, test } from './fixtures';
 test('a designer signs in through the local mailbox and sees what to do next', async ({ page }) => {
 	await page.goto('/');
 	await expect(page).toHaveURL(/\/signin/);
+	// The demo says on every page where its mail goes.
+	await expect(page.getByTestId('demo-band')).toContainText('demo: mail is kept on this machine');
 	await screenshot(page, 'signin');
 	await signInAs(page, 'designer@demo.test');
 	await expect(page.getByRole('heading', { name: /Good to see you, Oona/ })).toBeVisible();
 	await expect(page.getByRole('link', { name: 'Open the ranking' })).toBeVisible();
 	// The designer's navigation has no admin entry.
 	await expect(page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'People' })).toHaveCount(0);
+	await expect(page.getByTestId('demo-band')).toBeVisible();
 	await screenshot(page, 'home-designer');
 	await page.getByRole('button', { name: 'Sign out' }).click();
 	await expect(page.getByText('You are signed out.')).toBeVisible();

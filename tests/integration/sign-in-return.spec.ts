@@ -71,8 +71,14 @@ describe('the mailed sign-in link', () => {
 			const person = await people.upsert({ email: `${unique('cb')}@demo.test`, name: 'Callback Test', roles: ['designer'] }, null);
 			const link = new URL(await requestLink(person.email, '/projects'));
 			link.searchParams.set('callbackUrl', next);
-			const opened = await fetch(link, { redirect: 'manual' });
-			expect(opened.status).toBe(302);
+			// The app first points the link at a safe callbackUrl, then Auth.js signs in.
+			let opened = await fetch(link, { redirect: 'manual' });
+			for (let hops = 0; hops < 3 && opened.status === 303; hops++) {
+				const again = destination(opened.headers.get('location'));
+				expect(again.origin).toBe(ORIGIN);
+				opened = await fetch(again, { redirect: 'manual' });
+			}
+			expect(opened.status, next).toBe(302);
 			const to = destination(opened.headers.get('location'));
 			expect(to.origin, next).toBe(ORIGIN);
 			expect(to.pathname, next).toBe('/');

@@ -345,3 +345,8 @@ export async function modelCache(): Promise<ModelCache> {
 	await shared.ready();
 	return shared;
 }
+
+/** Stops this process's cache listening (server shutdown), so the process can exit. */
+export async function closeModelCache(): Promise<void> {
+	await shared?.close();
+}

@@ -13,6 +13,9 @@ export const DATABASE_URL_MISSING =
 const options: Options<Record<string, never>> = {
 	onnotice: () => {},
 	connect_timeout: 5,
+	// Seconds before reconnecting after the n-th failure in a row. The driver's default grows
+	// to 20 s, so a busy server could wait that long after a short outage; capped at 1 s.
+	backoff: (attempts: number) => Math.min(0.05 * 2 ** attempts, 1),
 	...(url
 		? {}
 		: {

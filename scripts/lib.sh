@@ -204,6 +204,9 @@ start_stack() {
 	export BODY_SIZE_LIMIT=${BODY_SIZE_LIMIT:-16M}
 	export HOST=127.0.0.1 PORT=$port ORIGIN="http://127.0.0.1:$port" APP_URL="http://127.0.0.1:$port"
 	export NODE_ENV=production
+	# Keep idle connections open longer than clients do (as behind a proxy), so a client
+	# never sends on a connection the server is just closing.
+	export KEEP_ALIVE_TIMEOUT=${KEEP_ALIVE_TIMEOUT:-65} HEADERS_TIMEOUT=${HEADERS_TIMEOUT:-66}
 	# Every test signs in from 127.0.0.1: lift the per-client sign-in limit (the scale-out
 	# test checks it with servers of its own).
 	export SIGNIN_PER_CLIENT=${SIGNIN_PER_CLIENT:-1000}

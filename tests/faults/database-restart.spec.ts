@@ -26,6 +26,8 @@ afterAll(() => {
 	if (cluster) pg('start');
 });
 
+const range = (xs: number[]) => `${Math.min(...xs)}–${Math.max(...xs)} ms (median ${[...xs].sort((a, b) => a - b)[xs.length >> 1]})`;
+
 type Seen = { caller: string; status: number; text: string };
 
 test.runIf(cluster && port)(`${OUTAGES} outages under traffic: only successes and plain 503s, nothing acknowledged lost`, async () => {
@@ -68,13 +70,20 @@ test.runIf(cluster && port)(`${OUTAGES} outages under traffic: only successes an
 	const loops = Object.entries(callers).flatMap(([caller, call]) => [loop(caller, call), loop(caller, call)]);
 
 	const recoveryMs: number[] = [];
+	const stopMs: number[] = [];
+	const startMs: number[] = [];
+	const timed = (into: number[], action: 'start' | 'stop') => {
+		const t = Date.now();
+		pg(action);
+		into.push(Date.now() - t);
+	};
 	try {
 		for (let i = 0; i < OUTAGES; i++) {
-			pg('stop');
+			timed(stopMs, 'stop');
 			await new Promise((r) => setTimeout(r, DOWN_MS));
 			// The health check needs no database: it answers all through the outage.
 			expect((await fetch(`${APP_URL}/api/v1/health`)).status).toBe(200);
-			pg('start');
+			timed(startMs, 'start');
 			// Back by itself (no restart of the app): poll an identified read quickly.
 			const startedAt = Date.now();
 			let status = 0;
@@ -123,6 +132,7 @@ test.runIf(cluster && port)(`${OUTAGES} outages under traffic: only successes an
 	await deleteParts([id]);
 	expect(heard).toBe(true);
 	console.log(
-		`${OUTAGES} outages: ${seen.length} answers (${outages.length} × 503), ${acknowledged.length} acknowledged writes kept; recovery after start ${Math.min(...recoveryMs)}–${Math.max(...recoveryMs)} ms`
+		`${OUTAGES} outages: ${seen.length} answers (${outages.length} × 503), ${acknowledged.length} acknowledged writes kept; ` +
+			`stopping took ${range(stopMs)}, starting ${range(startMs)}, the app answered again ${range(recoveryMs)} after the start`
 	);
 });

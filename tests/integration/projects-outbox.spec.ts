@@ -3,24 +3,13 @@
 import { afterAll, expect, test } from 'vitest';
 import { eq } from 'drizzle-orm';
 import nodemailer from 'nodemailer';
-import { createServer } from 'node:net';
 import { db } from '$lib/server/db';
 import { mailOutbox } from '$lib/server/db/schema';
 import { deliverDue, enqueueMail } from '$lib/server/mail';
 import { startMailCatcher } from '$lib/server/mail-catcher';
 import { composeMail } from '$lib/server/review';
 import { unique } from './helpers';
-
-async function sparePort(): Promise<number> {
-	return new Promise((resolve, reject) => {
-		const s = createServer();
-		s.once('error', reject);
-		s.listen(0, '127.0.0.1', () => {
-			const port = (s.address() as { port: number }).port;
-			s.close(() => resolve(port));
-		});
-	});
-}
+import { freePort } from './servers';
 
 let stop: (() => Promise<void>) | null = null;
 afterAll(async () => {
@@ -28,8 +17,8 @@ afterAll(async () => {
 });
 
 test('a review mail waits out a mail-server outage and is then delivered intact', async () => {
-	const smtpPort = await sparePort();
-	const httpPort = await sparePort();
+	const smtpPort = await freePort();
+	const httpPort = await freePort();
 	const to = `${unique('member')}@demo.test`;
 	const mail = composeMail({
 		to: { email: to, name: 'Ruthven Sallow' },

@@ -10,6 +10,11 @@ export const BUILD_DIR = resolve(process.env.BUILD_DIR ?? '.data/builds/test');
 export async function portFrom(variable: string): Promise<number> {
 	const given = Number(process.env[variable]);
 	if (Number.isInteger(given) && given > 0) return given;
+	return freePort();
+}
+
+/** A loopback port nothing listens on right now. */
+export function freePort(): Promise<number> {
 	return new Promise((done, fail) => {
 		const s = createServer();
 		s.once('error', fail);

@@ -17,8 +17,11 @@ const options = { onnotice: () => {}, connect_timeout: 5, backoff: () => 0.05 };
 const admin = postgres(url, { ...options, max: 1 });
 const opened: postgres.Sql[] = [];
 
+// `socket` (a connection of the caller's making) is a postgres.js option its types leave out.
+type Extra = postgres.Options<Record<string, never>> & { socket?: () => net.Socket };
+
 /** A client of its own with one connection, so "the next session" is that connection reused. */
-function oneConnection(extra: postgres.Options<Record<string, never>> = {}) {
+function oneConnection(extra: Extra = {}) {
 	const sql = postgres(url, { ...options, ...extra, max: 1 });
 	opened.push(sql);
 	return sql;

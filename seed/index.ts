@@ -1,5 +1,12 @@
 // Loads the demo scenario through the application's own code paths. Safe to run twice.
+// Never on a team installation (SMTP_URL set): its people would be real sign-in addresses.
+import { isDemo } from '../src/lib/server/deployment';
 import { DEMO_PEOPLE } from './people';
+
+if (!isDemo()) {
+	console.error('SMTP_URL is set, so this is a team installation: the demo people and catalogue are not loaded into it.');
+	process.exit(1);
+}
 
 const people = await import('../src/lib/server/people');
 const { client } = await import('../src/lib/server/db');

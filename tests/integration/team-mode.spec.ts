@@ -65,6 +65,14 @@ describe('team mode', () => {
 		expect(applied[0].n).toBeGreaterThan(0);
 	});
 
+	test('the demo seed, run by hand against it, refuses and loads nobody', async () => {
+		const env = { ...process.env, DATABASE_URL: teamUrl, SMTP_URL: smtpUrl };
+		const run = promisify(execFile)('npx', ['tsx', 'seed/index.ts'], { env });
+		await expect(run).rejects.toMatchObject({ code: 1, stderr: expect.stringMatching(/team installation/) });
+		const [{ n }] = await team`select count(*)::int as n from users`;
+		expect(n).toBe(0);
+	});
+
 	test('there is no mailbox and no demo band', async () => {
 		const box = await fetch(`${server!.url}/dev/mailbox`, { redirect: 'manual' });
 		expect(box.status).toBe(404);

@@ -85,7 +85,7 @@ const identify: Handle = async ({ event, resolve }) => {
 function unavailable(path: string): Response {
 	if (path.startsWith('/api/')) return apiError(503, DATABASE_UNAVAILABLE);
 	return new Response(
-		`<!doctype html><meta charset="utf-8"><title>Unavailable · Junctionary</title><body style="font-family:sans-serif;background:#f7f2e7;color:#2a2926;padding:3rem">${isDemo() ? `<p style="background:#2a2926;color:#f7f2e7;padding:.3rem .6rem;display:inline-block">${DEMO_BAND}</p>` : ''}<h1>Junctionary is catching its breath</h1><p>${DATABASE_UNAVAILABLE}</p><p><a href="">Reload</a></p>`,
+		`<!doctype html><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><title>Unavailable · Junctionary</title><body style="font-family:sans-serif;background:#f7f2e7;color:#2a2926;padding:3rem">${isDemo() ? `<p style="background:#2a2926;color:#f7f2e7;padding:.3rem .6rem;display:inline-block">${DEMO_BAND}</p>` : ''}<h1>Junctionary is catching its breath</h1><p>${DATABASE_UNAVAILABLE}</p><p><a href="">Reload</a></p>`,
 		{ status: 503, headers: { 'content-type': 'text/html; charset=utf-8', 'retry-after': '5' } }
 	);
 }

@@ -17,6 +17,20 @@ test('a designer signs in through the local mailbox and sees what to do next', a
 	await expect(page.getByText('You are signed out.')).toBeVisible();
 });
 
+test('the demo band and the local mailbox fit a phone-width screen', async ({ page }) => {
+	await page.setViewportSize({ width: 390, height: 844 });
+	for (const [path, name] of [
+		['/signin', 'signin-390'],
+		['/dev/mailbox', 'mailbox-390']
+	]) {
+		await page.goto(path);
+		await expect(page.getByTestId('demo-band')).toBeVisible();
+		// No horizontal scroll at phone width.
+		expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+		await screenshot(page, name);
+	}
+});
+
 test('an admin sees the people screen', async ({ page }) => {
 	await signInAs(page, 'admin@demo.test', '/admin');
 	await expect(page.getByRole('heading', { name: 'People and roles' })).toBeVisible();

@@ -1,5 +1,6 @@
 // PostgreSQL stopped and started 20 times under traffic from browsers (session cookies) and
-// scripts (Bearer tokens), reading and writing. An outage must never pass for "who are
+// scripts (Bearer tokens), reading and writing: every other time an orderly shutdown, else an
+// immediate one (connections cut, no checkpoint; the start replays the log, as after a crash). An outage must never pass for "who are
 // you?" (401), "not allowed" (403) or a bug (500): every answer is a success or a 503 with
 // the one plain message. The app recovers by itself each time, every write it acknowledged
 // is in the database afterwards, and its model cache still hears changes.
@@ -18,7 +19,7 @@ const OUTAGES = 20;
 // Short outages, long enough for the app to notice (the stop itself takes a moment too).
 const DOWN_MS = 300;
 
-function pg(action: 'start' | 'stop') {
+function pg(action: 'start' | 'stop' | 'crash') {
 	execFileSync('bash', ['scripts/pg.sh', action, cluster!, port!], { stdio: 'pipe' });
 }
 
@@ -72,14 +73,14 @@ test.runIf(cluster && port)(`${OUTAGES} outages under traffic: only successes an
 	const recoveryMs: number[] = [];
 	const stopMs: number[] = [];
 	const startMs: number[] = [];
-	const timed = (into: number[], action: 'start' | 'stop') => {
+	const timed = (into: number[], action: 'start' | 'stop' | 'crash') => {
 		const t = Date.now();
 		pg(action);
 		into.push(Date.now() - t);
 	};
 	try {
 		for (let i = 0; i < OUTAGES; i++) {
-			timed(stopMs, 'stop');
+			timed(stopMs, i % 2 === 0 ? 'stop' : 'crash');
 			await new Promise((r) => setTimeout(r, DOWN_MS));
 			// The health check needs no database: it answers all through the outage.
 			expect((await fetch(`${APP_URL}/api/v1/health`)).status).toBe(200);

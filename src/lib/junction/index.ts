@@ -50,6 +50,25 @@ export {
 	temperatureEnds,
 	FLAG_CODES,
 	POOR_FIT_RMS_V,
-	TEMPERATURE_EXTRAPOLATION_K
+	TEMPERATURE_EXTRAPOLATION_K,
+	RANK_BASES,
+	DEFAULT_BASIS,
+	DEFAULT_COVERAGE,
+	DEFAULT_CONFIDENCE,
+	TOLERANCE_LIMITS,
+	judgementOf,
+	toleranceFactor,
+	logNormalUpperBound
 } from './rank';
-export type { PartRecord, OperatingPoint, RankOptions, RankResult, RankedPart, FlagCode } from './rank';
+export type {
+	PartRecord,
+	OperatingPoint,
+	RankOptions,
+	RankResult,
+	RankedPart,
+	FlagCode,
+	RankBasis,
+	Judgement,
+	BoundTerms,
+	Evidence
+} from './rank';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { CatalogueTable, explainFlag, FLAG_CODES, orderByLeakage, type PartRecord } from './rank';
+import { CatalogueTable, explainFlag, FLAG_CODES, orderByKey, type PartRecord } from './rank';
 import { JUNCTION_KINDS } from './names';
 import { mulberry32 } from '../random';
 import { ModelTable } from './model-table';
@@ -330,11 +330,11 @@ describe('ordering by leakage', () => {
 			const idx = Array.from({ length: n }, (_, i) => i).filter((i) => i % 2 === 0 || r() < 0.5);
 			const want = reference(idx, worst, typical);
 			for (const limit of [Infinity, 0, 1, 2, Math.floor(idx.length / 2), idx.length - 1, idx.length]) {
-				const got = Array.from(orderByLeakage(Int32Array.from(idx), worst, typical, limit));
+				const got = Array.from(orderByKey(Int32Array.from(idx), worst, typical, limit));
 				expect(got).toEqual(want.slice(0, Math.min(limit, idx.length)));
 				// With a work array (offset inside its buffer) the answer is the same.
 				const scratch = new Float64Array(idx.length + 3).subarray(3);
-				expect(Array.from(orderByLeakage(Int32Array.from(idx), worst, typical, limit, scratch))).toEqual(got);
+				expect(Array.from(orderByKey(Int32Array.from(idx), worst, typical, limit, scratch))).toEqual(got);
 			}
 		}
 	});
@@ -347,11 +347,11 @@ describe('ordering by leakage', () => {
 		const typical = Float64Array.from({ length: n }, (_, i) => (i % 3 === 0 ? 0.25e-9 : (1e-10 * Math.floor(r() * 4))));
 		const idx = Int32Array.from({ length: n }, (_, i) => i);
 		const want = reference([...idx], worst, typical);
-		for (const limit of [1, 3, 50, 51, 52, 60, 200, 1300]) expect(Array.from(orderByLeakage(idx, worst, typical, limit))).toEqual(want.slice(0, limit));
+		for (const limit of [1, 3, 50, 51, 52, 60, 200, 1300]) expect(Array.from(orderByKey(idx, worst, typical, limit))).toEqual(want.slice(0, limit));
 		// All tied, typical NaN: index order.
 		const zero = new Float64Array(n);
 		const nan = new Float64Array(n).fill(NaN);
-		expect(Array.from(orderByLeakage(idx, zero, nan, 50))).toEqual(Array.from({ length: 50 }, (_, i) => i));
+		expect(Array.from(orderByKey(idx, zero, nan, 50))).toEqual(Array.from({ length: 50 }, (_, i) => i));
 	});
 
 	it('gives the same first parts whether they are listed from tight to leaky, leaky to tight or mixed', () => {
@@ -366,7 +366,7 @@ describe('ordering by leakage', () => {
 		const idx = Int32Array.from({ length: n }, (_, i) => i);
 		for (const worst of Object.values(orders)) {
 			const want = reference([...idx], worst, typical);
-			for (const limit of [1, 10, 100, 187, 188, 400]) expect(Array.from(orderByLeakage(idx, worst, typical, limit))).toEqual(want.slice(0, limit));
+			for (const limit of [1, 10, 100, 187, 188, 400]) expect(Array.from(orderByKey(idx, worst, typical, limit))).toEqual(want.slice(0, limit));
 		}
 	});
 
@@ -375,7 +375,7 @@ describe('ordering by leakage', () => {
 		const typical = Float64Array.of(1, 2, 1e-13, 1, 5, 0, 0);
 		const idx = Int32Array.of(0, 1, 2, 3, 4, 5, 6);
 		const want = [6, 2, 4, 3, 1, 5, 0];
-		expect(Array.from(orderByLeakage(idx, worst, typical))).toEqual(want);
-		for (let limit = 0; limit <= 7; limit++) expect(Array.from(orderByLeakage(idx, worst, typical, limit))).toEqual(want.slice(0, limit));
+		expect(Array.from(orderByKey(idx, worst, typical))).toEqual(want);
+		for (let limit = 0; limit <= 7; limit++) expect(Array.from(orderByKey(idx, worst, typical, limit))).toEqual(want.slice(0, limit));
 	});
 });

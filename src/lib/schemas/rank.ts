@@ -132,8 +132,8 @@ export const predictRequestSchema = z
 export type PredictRequest = z.infer<typeof predictRequestSchema>;
 
 /** Flag codes the ranking reports, and their words: the engine's. */
-export { FLAG_CODES as RANK_FLAGS, FLAG_WORDS } from '$lib/junction/rank';
-import type { FlagCode } from '$lib/junction/rank';
+export { FLAG_CODES as RANK_FLAGS, FLAG_WORDS } from '$lib/junction/rank-flags';
+import type { FlagCode } from '$lib/junction/rank-flags';
 export type RankFlag = FlagCode;
 
 /** One ranked part as the API returns it. */

@@ -1,0 +1,115 @@
+/**
+ * What goes into the rank core (part records) and what comes out (columns, rows).
+ * Definitions of the numbers are in rank.ts's header.
+ */
+import type { JunctionModel } from './model';
+import type { JunctionKind } from './names';
+import type { FlagCode } from './rank-flags';
+import type { RankBasis } from './operating-point';
+
+/** Where a part's model comes from: fitted to our bench sweeps, or given (card, datasheet) and never measured. */
+export type Evidence = 'measured' | 'given';
+
+/** A catalogue part as the server stores it. */
+export interface PartRecord {
+	id: string;
+	kind: JunctionKind;
+	/** One fitted model per measured sample (for a given part: the one given model). */
+	samples: JunctionModel[];
+	/** Each sample's unit label, in the order of `samples` (optional; reports only). */
+	sampleUnits?: string[];
+	/** Measured on the bench (default) or only given. A given part has no statistical bound. */
+	evidence?: Evidence;
+	ratings: { reverseV?: number; forwardCurrentA?: number };
+	measured: {
+		/** Smallest |current| ever measured on this part [A]. */
+		minAbsCurrentA: number;
+		/** Temperatures at which sweeps were measured [°C]. */
+		temperaturesC: number[];
+		/** Whether reverse-bias leakage was ever measured (otherwise only the IS floor is known). */
+		reverseMeasured: boolean;
+	};
+	/** Clear or glass package: ambient light creates photocurrent. */
+	transparentPackage?: boolean;
+	/** Worst RMS fit residual among the samples [V]. */
+	fitRmsResidualV?: number;
+}
+
+/** The statistical bound's terms for one part: n samples, factor k, coverage p, confidence γ. */
+export interface BoundTerms {
+	n: number;
+	k: number;
+	coverage: number;
+	confidence: number;
+}
+
+export interface RankedPart {
+	id: string;
+	kind: JunctionKind;
+	samples: number;
+	evidence: Evidence;
+	/** Leakage at the hot end [A]; `bound` is null for fewer than two measured samples. */
+	leakageA: { typical: number; worst: number; bound: number | null };
+	/** The bound's terms, null when there is no bound. */
+	bound: BoundTerms | null;
+	/** Each sample's |leakage| at the hot end [A], in record order (rows with `withSamples` only). */
+	sampleLeakageA?: number[];
+	forwardDropV?: { hot: number; cold: number; worst: number };
+	capacitanceF?: number;
+	flags: FlagCode[];
+	/** The part meets every limit the operating point states (see rank.ts). */
+	meetsLimits: boolean;
+}
+
+/** Options of `CatalogueTable.rank`. */
+export interface RankOptions {
+	/**
+	 * Only the best `limit` parts are put in `order` (a partial selection, cheaper than
+	 * ordering every part); the others are still evaluated and counted in `ranked`.
+	 */
+	limit?: number;
+	/**
+	 * Mask by part index: only parts with a non-zero entry are ordered, counted or listed
+	 * as excluded (e.g. the catalogue's kind and text filters). Length must be the table size.
+	 */
+	include?: Uint8Array;
+	/**
+	 * Write the result's per-part columns into buffers the table keeps instead of fresh
+	 * arrays: no allocation proportional to the catalogue, but the result is only valid
+	 * until the next `rank` call with `reuse` on this table (use it when the result is read
+	 * at once, as the server does).
+	 */
+	reuse?: boolean;
+}
+
+/** Columnar ranking result; `rows()` turns a page of it into objects. */
+export interface RankResult {
+	/** Part indices in rank order (rank.ts); excluded parts are left out. At most `limit` long. */
+	order: Int32Array;
+	/** How many parts the full order holds (≥ order.length when a limit cut it). */
+	ranked: number;
+	/** Of those, how many meet every limit (they come first in the order). */
+	meetingLimits: number;
+	/** Parts excluded by the reverse rating (among the included ones). */
+	excluded: Int32Array;
+	basis: RankBasis;
+	coverage: number;
+	confidence: number;
+	typicalA: Float64Array;
+	worstA: Float64Array;
+	/** Statistical bound [A]; NaN for parts with fewer than two measured samples. */
+	boundA: Float64Array;
+	/** Tolerance factor by measured sample count (NaN below two). */
+	factorByCount: Float64Array;
+	/** Signed current of every sample model at the hot end, in table order [A]. */
+	sampleA: Float64Array;
+	/** Forward drops (NaN when no clamp current was asked for). */
+	dropHotV: Float64Array;
+	dropColdV: Float64Array;
+	dropWorstV: Float64Array;
+	flags: Uint32Array;
+	/** Median capacitance at the bias [F], computed for every part only when a capacitance limit is given (else NaN). */
+	capacitanceF: Float64Array;
+	hotC: number;
+	coldC: number;
+}

@@ -158,13 +158,16 @@ function parseOne(line: string, material?: JunctionMaterial): ParsedModelCard {
 }
 
 /**
- * Parse every `.model` card of type D in a text.
+ * Parse every `.model` card of type D in a text (cards of other types beside them are passed over).
  * @throws Error with the model name and the offending token when a card is malformed.
  */
 export function parseModelCards(text: string, material?: JunctionMaterial): ParsedModelCard[] {
 	const cards = logicalLines(text).filter((l) => /^\.model\b/i.test(l));
 	if (cards.length === 0) throw new Error("expected at least one '.model NAME D(...)' card, found none");
-	return cards.map((l) => parseOne(l, material));
+	// A library's other cards (the shunt resistor's R model of a subcircuit) are passed over
+	// when it holds diode cards; a text with none is refused by the diode check below.
+	const diodes = cards.filter((l) => /^\.model\s+\S+\s+d\b/i.test(l));
+	return (diodes.length ? diodes : cards).map((l) => parseOne(l, material));
 }
 
 /**

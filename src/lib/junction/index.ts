@@ -35,6 +35,8 @@ export {
 export { junctionCapacitance, depletionCapacitance } from './capacitance';
 export { parseSpiceNumber, parseModelCard, parseModelCards, emitModelCard } from './spice-card';
 export type { ParsedModelCard, EmitOptions } from './spice-card';
+export { emitSpiceBlock, spiceIdentifier, spiceNumber, shuntTce, needsSubcircuit, worstSampleAt, asciiText } from './spice-export';
+export type { SpiceBlockInput, LabelledModel } from './spice-export';
 export { SweepError, SweepTooLargeError, FitError } from './errors';
 export type { DataIssue } from './errors';
 export { parseSweepCsv, checkSweepSize, MAX_SWEEP_BYTES } from './csv';

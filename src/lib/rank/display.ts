@@ -1,6 +1,7 @@
 /** How the sentence shows each value once typed (SI prefixes, Unicode minus). */
 import { formatBias, formatSI, formatTemperature } from '$lib/junction';
 import { parseFields, type FieldName, type OpFields } from './operating-point-url';
+import { BASIS_LABEL, type RankBasis, type RankItem } from '$lib/schemas/rank';
 
 /** Display text for a parsed field value, or null to leave the typed text alone. */
 export function displayValue(field: FieldName, value: number): string | null {
@@ -22,6 +23,9 @@ export function displayValue(field: FieldName, value: number): string | null {
 			return formatSI(value, 'Ω');
 		case 'maxCap':
 			return formatSI(value, 'F');
+		case 'coverage':
+		case 'confidence':
+			return percent(value);
 		default:
 			return null;
 	}
@@ -57,6 +61,8 @@ export function tidyFields(f: OpFields): OpFields {
 	show('allowedError', op.allowedErrorV);
 	show('leakage', op.leakageTargetA);
 	show('maxCap', op.maxCapacitanceF);
+	show('coverage', op.coverage);
+	show('confidence', op.confidence);
 	return out;
 }
 
@@ -68,4 +74,26 @@ export function volts(v: number | null | undefined, digits = 3): string {
 
 export function farads(f: number | null | undefined): string {
 	return f === null || f === undefined || !Number.isFinite(f) ? '—' : formatSI(f, 'F');
+}
+
+/**
+ * Why a part sits where it does beyond its leakage, in words, or null when nothing but
+ * its value on the basis placed it: a part with only a given model ranks after every
+ * measured part, a part without a value on the basis after those with one.
+ */
+export function standing(item: Pick<RankItem, 'evidence' | 'bound' | 'samples'>, basis: RankBasis): string | null {
+	if (item.evidence === 'given') return 'not measured: given model only, listed after measured parts';
+	if (basis === 'bound' && item.bound === null) return `${item.samples === 1 ? 'one sample' : 'too few samples'}: no bound, listed after parts with one`;
+	return null;
+}
+
+/** The list's heading: what it is ranked by, with the bound's coverage and confidence. */
+export function basisHeading(basis: RankBasis, coverage: number, confidence: number): string {
+	if (basis === 'bound') return `Ranked by statistical bound (${percent(coverage)} of parts, ${percent(confidence)} confidence)`;
+	return `Ranked by ${BASIS_LABEL[basis]}`;
+}
+
+/** A fraction as a percentage without float noise (0.95 → "95 %", 0.999 → "99.9 %"). */
+export function percent(f: number): string {
+	return `${Number((f * 100).toPrecision(6))} %`;
 }

@@ -6,12 +6,17 @@
  * Query names: v (bias), tlo/thi (temperature or range), ic (clamp current), vf (max
  * forward drop), margin (reverse-rating margin), over=1 (list parts over the rating),
  * rs (source resistance), verr (allowed error voltage), ileak (allowed leakage),
- * cmax (capacitance limit), kind (repeated), pkg (comma-separated), life (repeated), q.
+ * cmax (capacitance limit), kind (repeated), pkg (comma-separated), life (repeated), q,
+ * basis (bound | worst | typical; left out for the default, bound), cov and conf (the
+ * bound's coverage and confidence, as typed: "95 %" or "0.95").
  */
 import { parseQuantity, parseTemperature, type QuantityKind } from '$lib/junction';
 import {
+	DEFAULT_BASIS,
 	operatingPointSchema,
+	RANK_BASES,
 	RANK_KINDS,
+	type RankBasis,
 	RANK_LIFECYCLES,
 	type RankKind,
 	type RankLifecycle,
@@ -34,6 +39,9 @@ export type OpFields = {
 	packages: string;
 	lifecycles: RankLifecycle[];
 	q: string;
+	basis: RankBasis;
+	coverage: string;
+	confidence: string;
 };
 
 export type FieldName = keyof OpFields;
@@ -55,14 +63,17 @@ export const DEFAULT_FIELDS: OpFields = {
 	kinds: [],
 	packages: '',
 	lifecycles: [],
-	q: ''
+	q: '',
+	basis: DEFAULT_BASIS,
+	coverage: '',
+	confidence: ''
 };
 
 export function emptyFields(): OpFields {
 	return { ...DEFAULT_FIELDS, bias: '', tLo: '', tHi: '', clamp: '', maxDrop: '', kinds: [], lifecycles: [] };
 }
 
-const TEXT_PARAMS: [Exclude<FieldName, 'overRating' | 'kinds' | 'lifecycles'>, string][] = [
+const TEXT_PARAMS: [Exclude<FieldName, 'overRating' | 'kinds' | 'lifecycles' | 'basis'>, string][] = [
 	['bias', 'v'],
 	['tLo', 'tlo'],
 	['tHi', 'thi'],
@@ -74,11 +85,13 @@ const TEXT_PARAMS: [Exclude<FieldName, 'overRating' | 'kinds' | 'lifecycles'>, s
 	['leakage', 'ileak'],
 	['maxCap', 'cmax'],
 	['packages', 'pkg'],
-	['q', 'q']
+	['q', 'q'],
+	['coverage', 'cov'],
+	['confidence', 'conf']
 ];
 
 /** Query parameter names the operating point uses (others, e.g. ids, are left alone). */
-export const OP_PARAM_NAMES = [...TEXT_PARAMS.map(([, p]) => p), 'over', 'kind', 'life'];
+export const OP_PARAM_NAMES = [...TEXT_PARAMS.map(([, p]) => p), 'over', 'kind', 'life', 'basis'];
 
 /** Reads fields from a query; an empty query (no v and no temperature) gives the defaults. */
 export function fieldsFromQuery(params: URLSearchParams): OpFields {
@@ -88,6 +101,8 @@ export function fieldsFromQuery(params: URLSearchParams): OpFields {
 	f.overRating = params.get('over') === '1' || params.get('over') === 'on';
 	f.kinds = params.getAll('kind').filter((k): k is RankKind => (RANK_KINDS as readonly string[]).includes(k));
 	f.lifecycles = params.getAll('life').filter((k): k is RankLifecycle => (RANK_LIFECYCLES as readonly string[]).includes(k));
+	const basis = params.get('basis');
+	f.basis = (RANK_BASES as readonly string[]).includes(basis ?? '') ? (basis as RankBasis) : DEFAULT_BASIS;
 	return f;
 }
 
@@ -101,6 +116,7 @@ export function queryFromFields(f: OpFields): URLSearchParams {
 	if (f.overRating) p.set('over', '1');
 	for (const k of f.kinds) p.append('kind', k);
 	for (const l of f.lifecycles) p.append('life', l);
+	if (f.basis !== DEFAULT_BASIS) p.set('basis', f.basis);
 	return p;
 }
 
@@ -164,6 +180,9 @@ export function fieldsFromOperatingPoint(op: RankOperatingPoint): OpFields {
 	f.lifecycles = [...(op.lifecycles ?? [])];
 	f.packages = (op.packages ?? []).join(', ');
 	f.q = op.q ?? '';
+	f.basis = op.basis ?? DEFAULT_BASIS;
+	f.coverage = op.coverage === undefined ? '' : String(op.coverage);
+	f.confidence = op.confidence === undefined ? '' : String(op.confidence);
 	return f;
 }
 
@@ -194,8 +213,23 @@ const PATH_FIELD: Record<string, FieldName> = {
 	packages: 'packages',
 	q: 'q',
 	kinds: 'kinds',
-	lifecycles: 'lifecycles'
+	lifecycles: 'lifecycles',
+	basis: 'basis',
+	coverage: 'coverage',
+	confidence: 'confidence'
 };
+
+/**
+ * A fraction as a person types it: "95 %", "95" or "0.95" are all 0.95 (a number above 1
+ * or with a % sign is a percentage). Rounded to 12 significant figures, so 99.9 % is 0.999.
+ * @throws Error naming what was expected.
+ */
+export function parseFraction(text: string): number {
+	const m = /^\s*([0-9]*\.?[0-9]+)\s*(%?)\s*$/.exec(text);
+	if (!m) throw new Error('expected a fraction such as 0.95 or 95 %');
+	const v = Number(m[1]);
+	return Number((m[2] === '%' || v > 1 ? v / 100 : v).toPrecision(12));
+}
 
 /**
  * Parses the fields with the engine's unit parser. Returns the operating point when every
@@ -267,6 +301,16 @@ export function parseFields(f: OpFields): { op: RankOperatingPoint | null; error
 		.filter(Boolean);
 	if (pk.length) op.packages = pk;
 	if (f.q.trim()) op.q = f.q.trim();
+	if (f.basis !== DEFAULT_BASIS) op.basis = f.basis;
+	for (const field of ['coverage', 'confidence'] as const) {
+		const text = f[field].trim();
+		if (!text) continue;
+		try {
+			op[field] = parseFraction(text);
+		} catch (e) {
+			errors[field] = (e as Error).message;
+		}
+	}
 	if (Object.keys(errors).length) return { op: null, errors };
 	const checked = operatingPointSchema.safeParse(op);
 	if (!checked.success) {

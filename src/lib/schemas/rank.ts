@@ -13,11 +13,30 @@ export type RankKind = JunctionKind;
 export type RankLifecycle = Lifecycle;
 
 export const MAX_RANK_LIMIT = 1000;
+
+// What leakage a ranking is judged on, and the statistical bound's coverage and confidence.
+import { DEFAULT_BASIS, RANK_BASES, type RankBasis } from '$lib/junction/operating-point';
+import { DEFAULT_CONFIDENCE, DEFAULT_COVERAGE, TOLERANCE_LIMITS } from '$lib/junction/tolerance-limits';
+export { DEFAULT_BASIS, DEFAULT_CONFIDENCE, DEFAULT_COVERAGE, RANK_BASES, TOLERANCE_LIMITS, type RankBasis };
+/** The bases in words, for headings and choosers. */
+export const BASIS_LABEL: Record<RankBasis, string> = {
+	bound: 'statistical bound',
+	worst: 'worst measured sample',
+	typical: 'typical (median) sample'
+};
 /** Absolute zero in °C; no temperature may be at or below it. */
 const ABS_ZERO_C = -273.15;
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be finite`);
 const positive = (what: string) => finite(what).refine((v) => v > 0, `${what} must be greater than zero`);
+/** A fraction the bound is stated at (coverage, confidence), 0.5…0.999 inclusive. */
+const fraction = (what: string, example: string) =>
+	z
+		.number({ error: `${what} must be a number between ${TOLERANCE_LIMITS.min} and ${TOLERANCE_LIMITS.max}, ${example}` })
+		.refine(
+			(v) => Number.isFinite(v) && v >= TOLERANCE_LIMITS.min && v <= TOLERANCE_LIMITS.max,
+			`${what} must lie between ${TOLERANCE_LIMITS.min} and ${TOLERANCE_LIMITS.max} (a fraction, ${example})`
+		);
 const celsius = (what: string) =>
 	finite(what).refine((v) => v > ABS_ZERO_C && v < 1000, `${what} must lie between absolute zero and 1000 °C`);
 
@@ -48,7 +67,15 @@ export const operatingPointSchema = z
 		/** Allowed worst-case leakage [A]. */
 		leakageTargetA: positive('leakageTargetA').optional(),
 		/** Largest acceptable junction capacitance at the bias [F]. */
-		maxCapacitanceF: positive('maxCapacitanceF').optional()
+		maxCapacitanceF: positive('maxCapacitanceF').optional(),
+		/** What the order and the leakage budget are judged on (default "bound"). */
+		basis: z
+			.enum(RANK_BASES, { error: 'basis must be "bound" (statistical bound), "worst" (worst measured sample) or "typical"' })
+			.optional(),
+		/** Fraction of parts the statistical bound covers (default 0.95). */
+		coverage: fraction('coverage', 'e.g. 0.95 for 95 % of parts').optional(),
+		/** Confidence of the statistical bound (default 0.90). */
+		confidence: fraction('confidence', 'e.g. 0.9 for 90 % confidence').optional()
 	})
 	.strict()
 	.superRefine((op, ctx) => {
@@ -80,17 +107,19 @@ export const rankRequestSchema = z
 	.object({
 		limit: z.number().int().min(1).max(MAX_RANK_LIMIT, `limit must be at most ${MAX_RANK_LIMIT}`).optional(),
 		/** Attach the typical model to the first this-many items (for curves drawn in the browser). */
-		withModels: z.number().int().min(0).max(10).optional()
+		withModels: z.number().int().min(0).max(10).optional(),
+		/** Add each sample's leakage at the hot end to every item (`sampleLeakage`). */
+		withSamples: z.boolean({ error: 'withSamples must be true or false' }).optional()
 	})
 	.passthrough()
 	.transform((v, ctx) => {
-		const { limit, withModels, ...rest } = v;
+		const { limit, withModels, withSamples, ...rest } = v;
 		const op = operatingPointSchema.safeParse(rest);
 		if (!op.success) {
 			for (const i of op.error.issues) ctx.addIssue({ ...i, code: 'custom', message: i.message, path: i.path });
 			return z.NEVER;
 		}
-		return { op: op.data, limit: limit ?? 100, withModels: withModels ?? 0 };
+		return { op: op.data, limit: limit ?? 100, withModels: withModels ?? 0, withSamples: withSamples ?? false };
 	});
 export type RankRequest = z.output<typeof rankRequestSchema>;
 
@@ -146,8 +175,19 @@ export type RankItem = {
 	package: string;
 	lifecycle: RankLifecycle;
 	ratedReverseV: number | null;
+	/** Sample models behind the numbers (1 for a part with only a given model). */
 	samples: number;
-	leakageA: { typical: number; worst: number };
+	/** Measured on our bench, or only a given model (card, datasheet): given parts rank after measured ones. */
+	evidence: 'measured' | 'given';
+	/**
+	 * Leakage at the hot end [A]: typical = median sample, worst = the sample leaking most at
+	 * the operating point, bound = the statistical bound (null with fewer than two measured samples).
+	 */
+	leakageA: { typical: number; worst: number; bound: number | null };
+	/** The bound's terms: n samples, tolerance factor k, coverage and confidence; null when there is no bound. */
+	bound: { n: number; k: number; coverage: number; confidence: number } | null;
+	/** Each sample's |leakage| at the hot end, with `withSamples` only. */
+	sampleLeakage?: { unit: string; leakageA: number }[];
 	forwardDropV: { cold: number; hot: number; worst: number } | null;
 	/** Rated reverse voltage minus the reverse bias [V] (null when unrated or forward-biased). */
 	reverseMarginV: number | null;
@@ -175,4 +215,8 @@ export type RankResponse = {
 	coldC: number;
 	/** The leakage budget used for the over-leakage flag, if any [A]. */
 	leakageBudgetA: number | null;
+	/** What the order and the budget were judged on, and the bound's coverage and confidence. */
+	basis: RankBasis;
+	coverage: number;
+	confidence: number;
 };

@@ -15,6 +15,14 @@ export function zodIssues(e: ZodError): Issue[] {
 	return e.issues.map((i) => ({ path: i.path.join('.'), message: i.message }));
 }
 
+/** The first problem in words (its message names the field), and how many more there are. */
+function plainMessage(e: ZodError): string {
+	const [first, ...rest] = e.issues;
+	if (!first) return 'The request does not match the expected shape.';
+	const text = first.message.replace(/\.?$/, '.');
+	return rest.length ? `${text} (${rest.length} more problem${rest.length === 1 ? '' : 's'} listed in issues.)` : text;
+}
+
 /** Known failures a domain module throws; the wrapper turns them into JSON errors. */
 export class DomainError extends Error {
 	constructor(
@@ -36,7 +44,7 @@ export function endpoint(handler: (event: RequestEvent) => Promise<Response> | R
 			return await handler(event);
 		} catch (e) {
 			if (isHttpError(e)) return apiError(e.status, e.body.message, e.body.issues);
-			if (e instanceof ZodError) return apiError(400, 'The request does not match the expected shape.', zodIssues(e));
+			if (e instanceof ZodError) return apiError(400, plainMessage(e), zodIssues(e));
 			if (e instanceof DomainError) return apiError(e.status, e.message, e.issues);
 			if (isDatabaseDown(e)) return apiError(503, DATABASE_UNAVAILABLE);
 			throw e;

@@ -1,6 +1,5 @@
 // The parts catalogue: creating and changing parts, samples and given models; listings.
 import { and, asc, desc, eq, gt, ilike, isNull, or, sql, type SQL } from 'drizzle-orm';
-import { emitModelCard } from '$lib/junction';
 import { readModelCard } from '$lib/catalogue/model-card';
 import { DEFAULT_MATERIAL, type JunctionKind, type Material } from '$lib/catalogue/vocabulary';
 import { partFlags, toEngine } from '$lib/catalogue/models';
@@ -314,20 +313,3 @@ export async function compactList(): Promise<CompactPart[]> {
 		updated: r.updated.getTime()
 	}));
 }
-
-/** The part's typical model as a SPICE card (catalogue extensions included unless forSimulator). */
-export async function spiceCard(id: number, forSimulator = false): Promise<{ name: string; text: string } | null> {
-	const d = await detail(id);
-	if (!d || !d.model) return null;
-	const name = `${d.part.maker}_${d.part.partNumber}`.replace(/[^\w.+-]/g, '_').replace(/^[^A-Za-z_]/, 'J_$&');
-	const m = toEngine(d.model.typical, d.part.material);
-	const head = [
-		`* ${d.part.maker} ${d.part.partNumber} (${d.part.kind}) — Junctionary model version ${d.model.version}`,
-		d.model.isMeasured
-			? `* typical (median) of ${d.model.sampleCount} measured sample(s); measured at ${d.model.measured.temperaturesC.join(', ')} °C`
-			: `* not measured: given model (${d.part.givenModelSource ?? 'source not recorded'})`,
-		'* A model estimate from bench measurements of particular samples, not a guarantee.'
-	];
-	return { name, text: head.join('\n') + '\n' + emitModelCard(name, m, { forSimulator }) + '\n' };
-}
-

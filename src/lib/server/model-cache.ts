@@ -13,7 +13,7 @@
  */
 import { randomBytes } from 'node:crypto';
 import type { Sql } from 'postgres';
-import { CatalogueTable, createModel, type JunctionModel, type PartRecord } from '$lib/junction';
+import { CatalogueTable, createModel, type Evidence, type JunctionModel, type PartRecord } from '$lib/junction';
 import { engineMaterial } from '$lib/catalogue/models';
 import type { Material } from '$lib/catalogue/vocabulary';
 import type { RankKind, RankLifecycle, SpiceModel } from '$lib/schemas/rank';
@@ -29,10 +29,19 @@ export type CachedPart = {
 	lifecycle: RankLifecycle;
 	material: string;
 	ratedReverseV: number | null;
+	ratedForwardA: number | null;
 	modelVersion: number;
+	/** Measured on the bench, or only a given model. */
+	evidence: Evidence;
+	/** Each sample's unit label, in the order of record.samples (empty for a given model). */
+	sampleUnits: string[];
 	/** Lower-cased part number, maker and tags, for the text filter. */
 	search: string;
 	typical: SpiceModel;
+	/** The typical model as the engine predicts with it (material defaults, shunt factor). */
+	typicalModel: JunctionModel;
+	/** Where a given model came from (card, datasheet), when there is one. */
+	givenSource: string | null;
 	record: PartRecord;
 };
 
@@ -52,6 +61,9 @@ type Row = {
 	model_version: number;
 	typical: SpiceModel;
 	sample_models: SpiceModel[];
+	sample_units: string[] | null;
+	is_measured: boolean;
+	given_model_source: string | null;
 	measured: { minCurrentA: number | null; temperaturesC: number[]; reverseMeasured: boolean; worstRmsResidualV: number | null };
 };
 
@@ -63,10 +75,16 @@ function toEngineModel(m: SpiceModel, row: Row): JunctionModel {
 /** Builds the engine record for a row; throws RangeError when a model is invalid. */
 export function partFromRow(row: Row): CachedPart {
 	const sampleModels = row.sample_models.length > 0 ? row.sample_models : [row.typical];
+	const evidence: Evidence = row.is_measured ? 'measured' : 'given';
+	// Units are kept beside the models; a row without them (not yet filled in) numbers its samples.
+	const units = row.sample_units ?? [];
+	const sampleUnits = evidence === 'given' ? [] : sampleModels.map((_, i) => (units.length === sampleModels.length ? units[i] : `#${i + 1}`));
 	const record: PartRecord = {
 		id: String(row.id),
 		kind: row.kind,
 		samples: sampleModels.map((m) => toEngineModel(m, row)),
+		sampleUnits,
+		evidence,
 		ratings: {
 			...(row.rated_reverse_v !== null ? { reverseV: row.rated_reverse_v } : {}),
 			...(row.rated_forward_a !== null ? { forwardCurrentA: row.rated_forward_a } : {})
@@ -92,9 +110,14 @@ export function partFromRow(row: Row): CachedPart {
 		lifecycle: row.lifecycle,
 		material: row.material,
 		ratedReverseV: row.rated_reverse_v,
+		ratedForwardA: row.rated_forward_a,
 		modelVersion: row.model_version,
+		evidence,
+		sampleUnits,
 		search: [row.part_number, row.maker, ...(row.tags ?? [])].join(' ').toLowerCase(),
 		typical: row.typical,
+		typicalModel: toEngineModel(row.typical, row),
+		givenSource: row.given_model_source,
 		record
 	};
 }
@@ -112,8 +135,20 @@ export class CacheSnapshot {
 }
 
 const SELECT_COLUMNS = `p.id, p.part_number, p.maker, p.kind, p.package, p.lifecycle, p.material, p.admits_light,
-	p.rated_reverse_v, p.rated_forward_a, p.shunt_factor_per_10k, p.tags, p.model_version,
-	m.typical, m.sample_models, m.measured`;
+	p.rated_reverse_v, p.rated_forward_a, p.shunt_factor_per_10k, p.tags, p.model_version, p.given_model_source,
+	m.typical, m.sample_models, m.sample_units, m.is_measured, m.measured`;
+
+/**
+ * One part read straight from the database, built exactly as the cache builds it (null
+ * when it has no model), for exports that must not wait for the next notification.
+ * @throws RangeError when its stored model is unusable.
+ */
+export async function loadPart(sql: Sql, id: number): Promise<CachedPart | null> {
+	const rows = (await sql.unsafe(`select ${SELECT_COLUMNS} from parts p join part_models m on m.part_id = p.id where p.id = $1`, [
+		id
+	])) as unknown as Row[];
+	return rows.length ? partFromRow(rows[0]) : null;
+}
 
 export type ModelCacheOptions = {
 	/** Delay between a notification and the rebuild, gathering bursts into one [ms]. */

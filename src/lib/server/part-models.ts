@@ -2,8 +2,8 @@
 // or its given model. Called inside the transaction that changed a fit, a run's state, a
 // sample or the given model.
 import { and, asc, eq, isNull, sql } from 'drizzle-orm';
-import type { DbOrTx } from './db';
-import { fits, partModels, parts, runs, type StoredModel } from './db/schema';
+import { db, type DbOrTx } from './db';
+import { fits, partModels, parts, runs, samples, type StoredModel } from './db/schema';
 import { notifyModelChanged } from './model-events';
 import { currentMagnitude, LEAKAGE_PROBE } from '$lib/catalogue/models';
 import type { Material } from '$lib/catalogue/vocabulary';
@@ -17,7 +17,7 @@ function median(xs: number[]): number {
 	return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
 }
 
-type SampleFit = { sampleId: number; model: StoredModel; rms: number };
+type SampleFit = { sampleId: number; unit: string; model: StoredModel; rms: number };
 
 /** Median of every parameter over samples (each parameter on its own), and min–max spread. */
 export function aggregate(models: StoredModel[]): { typical: StoredModel; spread: Record<string, [number, number]> } {
@@ -36,6 +36,60 @@ export function aggregate(models: StoredModel[]): { typical: StoredModel; spread
 	return { typical: typical as StoredModel, spread };
 }
 
+/** A part's current fits of active runs with what the aggregate needs of their runs and samples, oldest run first. */
+function fitRows(tx: DbOrTx, partId: number) {
+	return tx
+		.select({
+			sampleId: fits.sampleId,
+			unit: samples.unit,
+			model: fits.model,
+			quality: fits.quality,
+			range: fits.range,
+			temperatureC: runs.temperatureC,
+			direction: runs.direction
+		})
+		.from(fits)
+		.innerJoin(runs, eq(runs.id, fits.runId))
+		.innerJoin(samples, eq(samples.id, fits.sampleId))
+		// Each active run's current fit: withdrawn runs and superseded fit versions stay on record but out of the model.
+		.where(and(eq(fits.partId, partId), isNull(fits.supersededAt), eq(runs.state, 'active')))
+		.orderBy(asc(fits.runId));
+}
+
+/** Per sample: the fit of its run nearest the nominal temperature (earliest on ties), by sample id. */
+function representativeFits(rows: Awaited<ReturnType<typeof fitRows>>): SampleFit[] {
+	const bySample = new Map<number, SampleFit & { dist: number }>();
+	for (const r of rows) {
+		const dist = Math.abs(r.temperatureC - NOMINAL_C);
+		const cur = bySample.get(r.sampleId);
+		if (!cur || dist < cur.dist) bySample.set(r.sampleId, { sampleId: r.sampleId, unit: r.unit, model: r.model, rms: r.quality.rmsResidualV, dist });
+	}
+	return [...bySample.values()].sort((a, b) => a.sampleId - b.sampleId);
+}
+
+/**
+ * Fills in the sample units of measured parts stored before units were kept (their
+ * sample_units empty), from the same choice of fits; models and versions stay as they are.
+ * Returns how many parts it filled.
+ */
+export async function backfillSampleUnits(tx: DbOrTx): Promise<number> {
+	const stale = await tx
+		.select({ partId: partModels.partId })
+		.from(partModels)
+		.where(sql`${partModels.isMeasured} and jsonb_array_length(${partModels.sampleUnits}) <> ${partModels.sampleCount}`);
+	for (const { partId } of stale) {
+		const units = representativeFits(await fitRows(tx, partId)).map((f) => f.unit);
+		await tx.update(partModels).set({ sampleUnits: units }).where(eq(partModels.partId, partId));
+		await notifyModelChanged(tx, partId);
+	}
+	return stale.length;
+}
+
+/** `backfillSampleUnits` in one transaction on the app's pool (server start, the migrate script). */
+export async function fillSampleUnits(): Promise<number> {
+	return db.transaction((tx) => backfillSampleUnits(tx));
+}
+
 /**
  * Writes (or removes) the part_models row and bumps parts.modelVersion, then announces
  * the change. Returns the new version, or null when the part has no model at all.
@@ -47,20 +101,7 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 		.where(eq(parts.id, partId))
 		.returning();
 	if (!part) return null;
-	const rows = await tx
-		.select({
-			sampleId: fits.sampleId,
-			model: fits.model,
-			quality: fits.quality,
-			range: fits.range,
-			temperatureC: runs.temperatureC,
-			direction: runs.direction
-		})
-		.from(fits)
-		.innerJoin(runs, eq(runs.id, fits.runId))
-		// Each active run's current fit: withdrawn runs and superseded fit versions stay on record but out of the model.
-		.where(and(eq(fits.partId, partId), isNull(fits.supersededAt), eq(runs.state, 'active')))
-		.orderBy(asc(fits.runId));
+	const rows = await fitRows(tx, partId);
 	const version = part.modelVersion;
 	const material = part.material as Material;
 
@@ -75,6 +116,7 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 			typical: given,
 			worst: given,
 			sampleModels: [given],
+			sampleUnits: [],
 			spread: {},
 			measured: { minCurrentA: null, temperaturesC: [], reverseMeasured: false, worstRmsResidualV: null },
 			sampleCount: 0,
@@ -86,15 +128,9 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 		return version;
 	}
 
-	// Per sample: the fit of its run nearest the nominal temperature (earliest on ties).
-	const bySample = new Map<number, SampleFit & { dist: number }>();
-	for (const r of rows) {
-		const dist = Math.abs(r.temperatureC - NOMINAL_C);
-		const cur = bySample.get(r.sampleId);
-		if (!cur || dist < cur.dist) bySample.set(r.sampleId, { sampleId: r.sampleId, model: r.model, rms: r.quality.rmsResidualV, dist });
-	}
-	const sampleFits = [...bySample.values()].sort((a, b) => a.sampleId - b.sampleId);
+	const sampleFits = representativeFits(rows);
 	const sampleModels = sampleFits.map((s) => s.model);
+	const sampleUnits = sampleFits.map((s) => s.unit);
 	const { typical, spread } = aggregate(sampleModels);
 	let worst = sampleModels[0];
 	let worstLeak = -Infinity;
@@ -109,7 +145,7 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 		reverseMeasured: rows.some((r) => r.direction !== 'forward' || r.range.reverseMeasured === true),
 		worstRmsResidualV: Math.max(...rows.map((r) => r.quality.rmsResidualV))
 	};
-	const row = { typical, worst, sampleModels, spread, measured, sampleCount: sampleModels.length, isMeasured: true, version };
+	const row = { typical, worst, sampleModels, sampleUnits, spread, measured, sampleCount: sampleModels.length, isMeasured: true, version };
 	await tx.insert(partModels).values({ partId, ...row }).onConflictDoUpdate({ target: partModels.partId, set: row });
 	await notifyModelChanged(tx, partId);
 	return version;

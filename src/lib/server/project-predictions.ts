@@ -26,27 +26,52 @@ export function toOperatingPoint(r: Requirement): RankOperatingPoint {
 	};
 }
 
-/** Predictions and typical models from one cache snapshot. Parts without a usable model are absent. */
+/** What an export needs of a part as it stood: its evidence, the typical model and each sample's model. */
+export type PartModels = {
+	evidence: 'measured' | 'given';
+	givenSource: string | null;
+	typical: ModelRecord;
+	samples: { unit: string; model: ModelRecord }[];
+};
+
+/** The record of an engine model: every parameter createModel needs to rebuild it. */
+export function modelRecordOf(m: JunctionModel): ModelRecord {
+	const input: Record<string, number> = {};
+	for (const k of ['IS', 'N', 'RS', 'RSH', 'ISR', 'NR', 'BV', 'IBV', 'NBV', 'EG', 'XTI', 'TNOM', 'CJO', 'VJ', 'M', 'FC', 'shuntFactorPer10K'] as const) {
+		const v = m[k];
+		if (typeof v === 'number') input[k] = v;
+	}
+	return { input, material: m.material };
+}
+
+/**
+ * Predictions and models from one cache snapshot: `models` holds each part's typical
+ * model, `parts` also every sample's. Parts without a usable model are absent.
+ */
 export async function predictEntries(
 	partIds: number[],
 	requirement: Requirement
-): Promise<{ predictions: Map<number, Prediction>; models: Map<number, ModelRecord> }> {
+): Promise<{ predictions: Map<number, Prediction>; models: Map<number, ModelRecord>; parts: Map<number, PartModels> }> {
 	const cache = await modelCache();
 	const snap = cache.snapshot;
 	const models = new Map<number, ModelRecord>();
+	const parts = new Map<number, PartModels>();
 	for (const id of partIds) {
 		const k = snap.indexOf.get(id);
 		if (k === undefined) continue;
 		const part = snap.parts[k];
-		const sample = part.record.samples[0];
-		models.set(id, {
-			input: { ...(part.typical as Record<string, number>), shuntFactorPer10K: sample.shuntFactorPer10K, EG: part.typical.EG ?? sample.EG },
-			material: sample.material
+		const typical = modelRecordOf(part.typicalModel);
+		models.set(id, typical);
+		parts.set(id, {
+			evidence: part.evidence,
+			givenSource: part.givenSource,
+			typical,
+			samples: part.evidence === 'measured' ? part.record.samples.map((m, i) => ({ unit: part.sampleUnits[i], model: modelRecordOf(m) })) : []
 		});
 	}
 	// Passing the cache reads the same snapshot synchronously.
 	const predictions = await predictParts(partIds, toOperatingPoint(requirement), cache);
-	return { predictions, models };
+	return { predictions, models, parts };
 }
 
 /** The engine model behind a stored record, or null when it no longer validates. */

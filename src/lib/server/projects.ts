@@ -9,7 +9,7 @@ import { DomainError } from './api';
 import { recordAudit } from './audit';
 import * as people from './people';
 import { personRefs, type PersonRef } from './people';
-import { predictEntries, type ModelRecord, type Prediction } from './project-predictions';
+import { predictEntries, type ModelRecord, type PartModels, type Prediction } from './project-predictions';
 import { EDITABLE_STATES, isEditable, STATE_LABEL, isReviewState } from '$lib/review-transitions';
 import type { CreateProjectInput } from '$lib/schemas/projects';
 
@@ -170,10 +170,12 @@ export async function entries(project: Project): Promise<Entry[]> {
 	return (await evaluate(project)).entries;
 }
 
-/** Entries with predictions, and the typical models they came from (one cache snapshot). */
-export async function evaluate(project: Project): Promise<{ entries: Entry[]; models: Map<number, ModelRecord> }> {
+/** Entries with predictions, and the models they came from (typical, and every sample's; one cache snapshot). */
+export async function evaluate(
+	project: Project
+): Promise<{ entries: Entry[]; models: Map<number, ModelRecord>; parts: Map<number, PartModels> }> {
 	const rows = await entryRows(project.id);
-	const { predictions, models } = await predictEntries(
+	const { predictions, models, parts } = await predictEntries(
 		rows.map((r) => r.partId),
 		project.requirement
 	);
@@ -193,7 +195,7 @@ export async function evaluate(project: Project): Promise<{ entries: Entry[]; mo
 			verdict: prediction ? verdict(prediction, project.requirement) : null
 		};
 	});
-	return { entries: list, models };
+	return { entries: list, models, parts };
 }
 
 /**

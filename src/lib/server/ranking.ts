@@ -1,16 +1,18 @@
 /**
  * Ranking the catalogue at a designer's operating point, and predictions for named parts.
  * The numbers, the limit flags and the order come from the engine's catalogue table
- * (src/lib/junction/rank.ts) over the in-memory model cache: parts meeting every stated
- * limit (forward drop, leakage budget, capacitance, reverse rating) first, then the rest,
- * each group by worst-case leakage. This module adds the catalogue's filters, turns an
- * allowed error voltage into the leakage budget, and adds the error voltage across the
- * source resistance and the reverse margin to each item.
+ * (src/lib/junction/rank.ts, which states the definitions and order rules) over the
+ * in-memory model cache: parts meeting every stated limit first; within each group
+ * measured parts before given-model-only ones, parts with a value on the chosen basis
+ * (statistical bound by default, worst sample or typical) before those without, then by
+ * that value. This module adds the catalogue's filters, turns an allowed error voltage
+ * into the leakage budget, and adds the error voltage across the source resistance, the
+ * reverse margin and (on request) each sample's leakage by unit to each item.
  *
- * Worst case: leakage at the hot end of the range (largest sample), forward drop the
- * larger of the hot and cold ends (largest sample). Material defaults (EG, XTI) are the
- * engine's. The bias is across the junction itself, so the source resistance is not put
- * in series: it only turns leakage into an error voltage.
+ * Worst case: leakage at the hot end of the range (largest sample at that point), forward
+ * drop the larger of the hot and cold ends (largest sample). Material defaults (EG, XTI)
+ * are the engine's. The bias is across the junction itself, so the source resistance is
+ * not put in series: it only turns leakage into an error voltage.
  */
 import { CatalogueTable, SI_2019, type OperatingPoint, type RankResult, type RankedPart } from '$lib/junction';
 import type { RankFlag, RankItem, RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
@@ -30,7 +32,10 @@ export function engineOperatingPoint(op: RankOperatingPoint): OperatingPoint {
 		...(budget !== null ? { maxLeakageA: budget } : {}),
 		...(op.maxCapacitanceF !== undefined ? { maxCapacitanceF: op.maxCapacitanceF } : {}),
 		reverseMarginV: op.reverseMarginV ?? 0,
-		includeOverRating: op.includeOverRating ?? false
+		includeOverRating: op.includeOverRating ?? false,
+		...(op.basis !== undefined ? { basis: op.basis } : {}),
+		...(op.coverage !== undefined ? { coverage: op.coverage } : {}),
+		...(op.confidence !== undefined ? { confidence: op.confidence } : {})
 	};
 }
 
@@ -51,7 +56,10 @@ function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit
 		lifecycle: part.lifecycle,
 		ratedReverseV: part.ratedReverseV,
 		samples: row.samples,
+		evidence: row.evidence,
 		leakageA: row.leakageA,
+		bound: row.bound,
+		...(row.sampleLeakageA ? { sampleLeakage: row.sampleLeakageA.map((leakageA, i) => ({ unit: part.sampleUnits[i] ?? `#${i + 1}`, leakageA })) } : {}),
 		forwardDropV: row.forwardDropV ? { cold: row.forwardDropV.cold, hot: row.forwardDropV.hot, worst: row.forwardDropV.worst } : null,
 		reverseMarginV: part.ratedReverseV === null ? null : part.ratedReverseV - Math.max(0, -op.biasV),
 		capacitanceF: row.capacitanceF ?? null,
@@ -89,7 +97,8 @@ export function rankSnapshot(
 	snap: CacheSnapshot,
 	op: RankOperatingPoint,
 	limit = 100,
-	withModels = 0
+	withModels = 0,
+	withSamples = false
 ): RankResponse {
 	const eop = engineOperatingPoint(op);
 	let include: Uint8Array | undefined;
@@ -105,20 +114,36 @@ export function rankSnapshot(
 	const excludedOverRating = result.excluded.length;
 	const evaluated = result.ranked + excludedOverRating;
 	const budget = leakageBudget(op);
-	const rows = snap.table.rows(result, eop, 0, limit);
+	const rows = snap.table.rows(result, eop, 0, limit, SI_2019, { withSamples });
 	const items: RankItem[] = rows.map((row, i) => {
 		const part = snap.parts[order[i]];
 		const item: RankItem = { rank: i + 1, ...toItem(part, row, op) };
 		if (i < withModels) item.model = { ...part.typical, material: part.material };
 		return item;
 	});
-	return { items, evaluated, excludedOverRating, hotC: result.hotC, coldC: result.coldC, leakageBudgetA: budget };
+	return {
+		items,
+		evaluated,
+		excludedOverRating,
+		hotC: result.hotC,
+		coldC: result.coldC,
+		leakageBudgetA: budget,
+		basis: result.basis,
+		coverage: result.coverage,
+		confidence: result.confidence
+	};
 }
 
-/** Ranks the whole catalogue at an operating point (lowest worst-case leakage first). */
-export async function rankCatalogue(op: RankOperatingPoint, limit = 100, withModels = 0, cache?: ModelCache): Promise<RankResponse> {
+/** Ranks the whole catalogue at an operating point (order in the file header). */
+export async function rankCatalogue(
+	op: RankOperatingPoint,
+	limit = 100,
+	withModels = 0,
+	cache?: ModelCache,
+	withSamples = false
+): Promise<RankResponse> {
 	const c = cache ?? (await modelCache());
-	return rankSnapshot(c.snapshot, op, limit, withModels);
+	return rankSnapshot(c.snapshot, op, limit, withModels, withSamples);
 }
 
 /**
@@ -139,7 +164,7 @@ export async function predictParts(partIds: number[], op: RankOperatingPoint, ca
 	const table = new CatalogueTable(chosen.map((p) => p.record));
 	const eop = { ...engineOperatingPoint(op), includeOverRating: true };
 	const result = table.rank(eop);
-	const rows = table.rows(result, eop, 0, chosen.length);
+	const rows = table.rows(result, eop, 0, chosen.length, SI_2019, { withSamples: true });
 	rows.forEach((row, i) => {
 		const part = chosen[result.order[i]];
 		out.set(part.id, { ...toItem(part, row, op), modelVersion: part.modelVersion });

@@ -13,7 +13,10 @@ import * as people from './people';
 import { escapeHtml } from './people';
 import * as projectsDomain from './projects';
 import { engineModel, type ModelRecord } from './project-predictions';
-import { emitModelCard } from '$lib/junction/spice-card';
+import { asciiText } from '$lib/junction';
+import { JUNCTION_KINDS, type JunctionKind } from '$lib/catalogue/vocabulary';
+import type { SampleChoice } from '$lib/schemas/spice';
+import { spiceBlock, type SpiceBlock, type SpicePart } from './spice';
 import type { Prediction, Verdict } from './projects';
 import { checkTransition, ACTION_DONE, STATE_LABEL, isReviewState, type ReviewAction, type ReviewState } from '$lib/review-transitions';
 import type { ReviewResource } from '$lib/permissions';
@@ -29,6 +32,10 @@ export type SnapshotEntry = {
 	modelVersion: number;
 	/** The typical model as it stood, so exports reproduce the decision. */
 	model: ModelRecord | null;
+	/** Each measured sample's model as it stood, and whether the part was measured (absent in records made before they were kept). */
+	samples?: { unit: string; model: ModelRecord }[];
+	evidence?: 'measured' | 'given';
+	givenSource?: string | null;
 	prediction: Prediction | null;
 	verdict: Verdict | null;
 };
@@ -61,7 +68,7 @@ export function resourceOf(project: projectsDomain.Project, evts: ReviewEvent[])
 }
 
 async function snapshotOf(project: projectsDomain.Project): Promise<Snapshot> {
-	const { entries: current, models } = await projectsDomain.evaluate(project);
+	const { entries: current, models, parts } = await projectsDomain.evaluate(project);
 	const versions = new Map((await projectsDomain.entryRows(project.id)).map((r) => [r.partId, r.modelVersion]));
 	return {
 		requirement: project.requirement,
@@ -74,6 +81,9 @@ async function snapshotOf(project: projectsDomain.Project): Promise<Snapshot> {
 			addedBy: e.addedBy?.name ?? null,
 			modelVersion: e.prediction?.modelVersion ?? versions.get(e.partId) ?? 0,
 			model: models.get(e.partId) ?? null,
+			samples: parts.get(e.partId)?.samples ?? [],
+			evidence: parts.get(e.partId)?.evidence ?? 'measured',
+			givenSource: parts.get(e.partId)?.givenSource ?? null,
 			prediction: e.prediction,
 			verdict: e.verdict
 		}))
@@ -208,6 +218,10 @@ export function changedSince(snapshot: Snapshot, current: projectsDomain.Entry[]
 	return out;
 }
 
+function isJunctionKind(k: string): k is JunctionKind {
+	return (JUNCTION_KINDS as readonly string[]).includes(k);
+}
+
 export function isDecided(state: string): boolean {
 	return isReviewState(state) && (state === 'approved' || state === 'declined');
 }
@@ -222,35 +236,70 @@ export async function approval(projectId: number): Promise<{ project: projectsDo
 	return { project, event };
 }
 
-function spiceName(partNumber: string, taken: Set<string>): string {
-	let name = partNumber.replace(/[^\w.+-]/g, '_');
-	if (!/^[A-Za-z_]/.test(name)) name = `D${name}`;
-	let candidate = name;
-	for (let i = 2; taken.has(candidate.toLowerCase()); i++) candidate = `${name}_${i}`;
-	taken.add(candidate.toLowerCase());
-	return candidate;
+/** The part behind a snapshot entry, as exports need it; null when no usable model was on record. */
+function snapshotPart(e: SnapshotEntry): SpicePart | null {
+	const typical = engineModel(e.model);
+	if (!typical) return null;
+	const samples = (e.samples ?? []).flatMap((s) => {
+		const model = engineModel(s.model);
+		return model ? [{ unit: s.unit, model }] : [];
+	});
+	return {
+		partNumber: e.partNumber,
+		maker: e.maker,
+		kind: (isJunctionKind(e.kind) ? e.kind : 'diode') as JunctionKind,
+		modelVersion: e.modelVersion,
+		evidence: e.evidence ?? 'measured',
+		givenSource: e.givenSource ?? null,
+		typical,
+		samples
+	};
 }
 
-/** One `.model` card per approved part, with the models as they stood at approval. */
-export function spiceLibrary(project: projectsDomain.Project, event: ReviewEvent): string {
+/** How the project's .lib chooses its samples: typical, or each part's worst at the requirement's hot end. */
+export type LibraryChoice = 'typical' | 'worst';
+
+/**
+ * One SPICE block per approved part, from the models as they stood at approval (the same
+ * code as the part page and the junction API). For `worst`, each part's sample that leaks
+ * most at the requirement's bias and hottest temperature; a record that did not keep its
+ * samples says so and gives the typical model.
+ */
+export function spiceBlocks(event: ReviewEvent, choice: LibraryChoice = 'typical'): { partId: number; block: SpiceBlock | null; note: string | null }[] {
 	const taken = new Set<string>();
+	const r = event.snapshot.requirement;
+	const hot = r.temperatureRangeC ? r.temperatureRangeC[1] : (r.temperatureC ?? 25);
+	return event.snapshot.entries.map((e) => {
+		const part = snapshotPart(e);
+		if (!part) return { partId: e.partId, block: null, note: `no usable model was on record for ${e.partNumber} at approval` };
+		if (choice === 'worst' && part.samples.length === 0) {
+			const why = part.evidence === 'given' ? 'its model is given, not measured' : 'this record did not keep the sample models';
+			return { partId: e.partId, block: spiceBlock(part, { sample: 'typical' }, taken), note: `worst sample not available for ${e.partNumber} (${why}): typical model given` };
+		}
+		const sampleChoice: SampleChoice = choice === 'worst' ? { sample: 'worst', biasV: r.biasV, temperatureC: hot } : { sample: 'typical' };
+		return { partId: e.partId, block: spiceBlock(part, sampleChoice, taken), note: null };
+	});
+}
+
+/** The project's model library: a header, then each approved part's block (spiceBlocks). */
+export function spiceLibrary(project: projectsDomain.Project, event: ReviewEvent, choice: LibraryChoice = 'typical'): string {
 	const out = [
-		`* Junctionary model library: project "${project.name}" (#${project.id})`,
-		`* Approved by ${event.actorName} on ${event.at.toISOString()} (project version ${event.projectVersion})`,
-		`* Requirement: ${describeRequirement(event.snapshot.requirement)}`,
+		`* Junctionary model library: project "${asciiText(project.name)}" (#${project.id})`,
+		`* Approved by ${asciiText(event.actorName)} on ${event.at.toISOString()} (project version ${event.projectVersion})`,
+		`* Requirement: ${asciiText(describeRequirement(event.snapshot.requirement))}`,
+		`* Samples: ${choice === 'worst' ? "each part's sample that leaks most at the requirement's bias and hottest temperature" : 'typical models (median over measured samples)'}`,
 		'* Predictions are model estimates from bench measurements of particular samples, not guarantees.',
 		'* Leakage varies by lot, humidity, contamination and board layout (guarding matters).',
 		''
 	];
-	for (const e of event.snapshot.entries) {
-		const model = engineModel(e.model);
-		out.push(`* ${e.partNumber} (${e.maker}, ${e.kind}), model version ${e.modelVersion}${e.note ? ` - ${e.note.replace(/\s+/g, ' ')}` : ''}`);
-		if (!model) {
-			out.push(`* (no usable model was on record for ${e.partNumber} at approval)`, '');
-			continue;
-		}
-		out.push(emitModelCard(spiceName(e.partNumber, taken), model, { forSimulator: true }), '');
-	}
+	const blocks = spiceBlocks(event, choice);
+	event.snapshot.entries.forEach((e, i) => {
+		const { block, note } = blocks[i];
+		if (e.note) out.push(`* note on ${asciiText(e.partNumber)}: ${asciiText(e.note)}`);
+		if (note) out.push(`* (${asciiText(note)})`);
+		if (block) out.push(block.text);
+		else out.push('');
+	});
 	return out.join('\n');
 }
 

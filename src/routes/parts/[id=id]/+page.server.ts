@@ -1,10 +1,14 @@
 import { requirePermission } from '$lib/server/guards';
 import * as catalogue from '$lib/server/catalogue';
-import { currentMagnitude } from '$lib/catalogue/models';
 import { can } from '$lib/permissions';
+import { loadPart } from '$lib/server/model-cache';
+import { spiceBlock, spicePartOf } from '$lib/server/spice';
+import { currentAgainstBias, leakageAgainstTemperature, referenceRow } from '$lib/catalogue/sample-curves';
 import type { PageServerLoad } from './$types';
 
 const TEMPS = Array.from({ length: 34 }, (_, k) => -40 + 5 * k); // −40 … +125 °C
+/** Where the aggregate table states leakage: a guarded input at 25 °C, and half the rating hot. */
+const REFERENCE_HOT_C = 85;
 
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'catalogue:read');
@@ -14,27 +18,23 @@ export const load: PageServerLoad = async (event) => {
 	const unitOf = new Map(d.samples.map((s) => [s.id, s.unit]));
 	// Withdrawn runs are listed apart: they no longer shape the model or its curves.
 	const active = d.runs.filter((r) => r.state === 'active');
+	// The models exactly as the ranking predicts with them (null without a usable model).
+	const { client } = await import('$lib/server/db');
+	const cached = model ? await loadPart(client, id).catch(() => null) : null;
+	const sp = cached ? spicePartOf(cached) : null;
 	// Two reverse biases worth comparing: a small one (as across a guarded input) and half the rating.
 	const vr = part.ratedReverseV ?? 5;
 	const biases = [-0.1, -Math.min(10, Math.max(0.5, vr / 2))];
-	const leakage = model
-		? biases.map((b) => ({
-				biasV: b,
-				typical: TEMPS.map((t) => ({ x: t, y: currentMagnitude(model.typical, part.material, b, t) })).filter((p) => p.y > 0),
-				worst: TEMPS.map((t) => ({ x: t, y: currentMagnitude(model.worst ?? model.typical, part.material, b, t) })).filter((p) => p.y > 0)
-			}))
-		: [];
-	// Fitted curve of the typical model at 25 °C over the measured voltage span.
-	let curve: { x: number; y: number }[] = [];
-	if (model) {
+	const leakage = sp ? biases.map((b) => ({ biasV: b, ...leakageAgainstTemperature(sp.samples, sp.typical, b, TEMPS) })) : [];
+	const reference = sp && sp.samples.length ? [referenceRow(sp.samples, biases[0], 25), referenceRow(sp.samples, biases[1], REFERENCE_HOT_C)] : [];
+	// Each sample's model at 25 °C over the measured voltage span.
+	let iv = null;
+	if (sp) {
 		const vs = active.flatMap((r) => r.points.map((p) => p[0]));
 		const lo = vs.length ? Math.min(...vs) : -1;
 		const hi = vs.length ? Math.max(...vs) : 0.8;
-		curve = Array.from({ length: 121 }, (_, k) => lo + ((hi - lo) * k) / 120)
-			.map((v) => ({ x: v, y: currentMagnitude(model.typical, part.material, v, 25) }))
-			.filter((p) => p.y > 0);
+		iv = currentAgainstBias(sp.samples, sp.typical, 25, Array.from({ length: 121 }, (_, k) => lo + ((hi - lo) * k) / 120));
 	}
-	const card = model ? await catalogue.spiceCard(id) : null;
 	return {
 		part: catalogue.present(part, model),
 		samples: d.samples,
@@ -43,8 +43,10 @@ export const load: PageServerLoad = async (event) => {
 			.filter((r) => r.state === 'withdrawn')
 			.map((r) => ({ id: r.id, sample: unitOf.get(r.sampleId) ?? '?', temperatureC: r.temperatureC, fileName: r.fileName, at: r.withdrawnAt, reason: r.withdrawnReason ?? '' })),
 		canShortlist: can(user, 'shortlist:edit'),
+		modelUnits: sp?.samples.map((s) => s.unit) ?? [],
 		leakage,
-		curve,
-		card
+		reference,
+		iv,
+		card: sp ? spiceBlock(sp, { sample: 'typical' }) : null
 	};
 };

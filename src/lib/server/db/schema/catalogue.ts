@@ -207,10 +207,13 @@ export const partModels = pgTable('part_models', {
 		.primaryKey()
 		.references(() => parts.id, { onDelete: 'cascade' }),
 	typical: jsonb('typical').$type<StoredModel>().notNull(),
-	/** The sample with the highest predicted leakage (the given model when nothing is measured). */
+	/** The sample with the highest predicted leakage at −1 V, 25 °C (the given model when nothing is
+	 *  measured); kept for the API, while rankings and exports pick the worst sample at the operating point. */
 	worst: jsonb('worst').$type<StoredModel>(),
 	/** One model per sample, for the typical/worst prediction spread. */
 	sampleModels: jsonb('sample_models').$type<StoredModel[]>().notNull(),
+	/** Each sample's unit label, in the order of sampleModels (empty for a given model). */
+	sampleUnits: jsonb('sample_units').$type<string[]>().notNull().default([]),
 	spread: jsonb('spread').$type<Record<string, [number, number]>>().notNull().default({}),
 	measured: jsonb('measured')
 		.$type<{

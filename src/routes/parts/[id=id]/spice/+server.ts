@@ -1,14 +1,19 @@
-import { error } from '@sveltejs/kit';
+import { DomainError } from '$lib/server/api';
+import { fail } from '$lib/server/http-error';
 import { requirePermission } from '$lib/server/guards';
-import * as catalogue from '$lib/server/catalogue';
+import { partSpiceBlock, spiceResponse } from '$lib/server/spice';
+import { sampleChoiceFrom } from '$lib/schemas/spice';
 import type { RequestHandler } from './$types';
 
-// The typical model as a SPICE .model card; ?sim=1 leaves out the catalogue's own keys.
+// The part page's download: the same block and query as GET /api/v1/junctions/{id}/spice.
 export const GET: RequestHandler = async (event) => {
 	requirePermission(event, 'catalogue:read');
-	const card = await catalogue.spiceCard(Number(event.params.id), event.url.searchParams.get('sim') === '1');
-	if (!card) error(404, { message: 'This part has no model yet.', code: 'not_found' });
-	return new Response(card.text, {
-		headers: { 'content-type': 'text/plain; charset=utf-8', 'content-disposition': `attachment; filename="${card.name}.lib"` }
-	});
+	const choice = sampleChoiceFrom(event.url.searchParams);
+	if (!choice.success) fail(400, choice.error.issues[0].message);
+	try {
+		return spiceResponse(await partSpiceBlock(Number(event.params.id), choice.data));
+	} catch (e) {
+		if (e instanceof DomainError && (e.status === 404 || e.status === 409)) fail(e.status, e.message);
+		throw e;
+	}
 };

@@ -1,0 +1,1 @@
+ALTER TABLE "part_models" ADD COLUMN "sample_units" jsonb DEFAULT '[]'::jsonb NOT NULL;

@@ -1,0 +1,104 @@
+/**
+ * A part's predictions per measured sample, for the part page: every sample's curve
+ * (leakage against temperature at fixed reverse biases, |I| against bias at one
+ * temperature), their envelope (the largest sample at each point, whichever sample that
+ * is there), and a table of leakage at stated reference conditions with n, median,
+ * min–max and the statistical bound. No sample is called "worst" from one probe point.
+ */
+import {
+	DEFAULT_CONFIDENCE,
+	DEFAULT_COVERAGE,
+	diodeCurrent,
+	logNormalUpperBound,
+	toleranceFactor,
+	type JunctionModel,
+	type LabelledModel
+} from '$lib/junction';
+
+export type Point = { x: number; y: number };
+export type SampleCurve = { unit: string; points: Point[] };
+export type CurveSet = { samples: SampleCurve[]; envelope: Point[]; typical: Point[] };
+
+/** Leakage at one reference condition over a part's samples [A]. */
+export type ReferenceRow = {
+	biasV: number;
+	temperatureC: number;
+	n: number;
+	median: number;
+	min: number;
+	max: number;
+	/** Statistical bound (null with fewer than two samples), with its terms. */
+	bound: number | null;
+	k: number | null;
+	/** The unit leaking most at this condition. */
+	largestUnit: string | null;
+};
+
+function median(xs: number[]): number {
+	const s = [...xs].sort((a, b) => a - b);
+	const m = s.length >> 1;
+	return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+/** |I| of a model at a bias [V] and temperature [°C], NaN when it cannot be evaluated. */
+function leak(model: JunctionModel, biasV: number, temperatureC: number): number {
+	try {
+		return Math.abs(diodeCurrent(model, biasV, temperatureC));
+	} catch {
+		return NaN;
+	}
+}
+
+/** Curves over x for every sample, their envelope and the typical model; points ≤ 0 or NaN are left out. */
+export function curveSet(samples: readonly LabelledModel[], typical: JunctionModel, xs: readonly number[], at: (m: JunctionModel, x: number) => number): CurveSet {
+	const keep = (p: Point) => p.y > 0 && Number.isFinite(p.y);
+	const curves = samples.map((s) => ({ unit: s.unit, points: xs.map((x) => ({ x, y: at(s.model, x) })) }));
+	const envelope = xs.map((x, i) => ({ x, y: Math.max(...curves.map((c) => c.points[i].y).filter((y) => !Number.isNaN(y))) }));
+	return {
+		samples: curves.map((c) => ({ unit: c.unit, points: c.points.filter(keep) })),
+		envelope: samples.length ? envelope.filter(keep) : [],
+		typical: xs.map((x) => ({ x, y: at(typical, x) })).filter(keep)
+	};
+}
+
+/** Leakage against temperature [°C] at a bias [V], per sample. */
+export function leakageAgainstTemperature(samples: readonly LabelledModel[], typical: JunctionModel, biasV: number, temperaturesC: readonly number[]): CurveSet {
+	return curveSet(samples, typical, temperaturesC, (m, t) => leak(m, biasV, t));
+}
+
+/** |I| against bias [V] at a temperature [°C], per sample. */
+export function currentAgainstBias(samples: readonly LabelledModel[], typical: JunctionModel, temperatureC: number, biasesV: readonly number[]): CurveSet {
+	return curveSet(samples, typical, biasesV, (m, v) => leak(m, v, temperatureC));
+}
+
+/**
+ * Leakage over the samples at a reference condition: n, median, min–max, the unit leaking
+ * most there, and the one-sided tolerance bound (coverage and confidence defaults 0.95/0.90).
+ */
+export function referenceRow(
+	samples: readonly LabelledModel[],
+	biasV: number,
+	temperatureC: number,
+	coverage = DEFAULT_COVERAGE,
+	confidence = DEFAULT_CONFIDENCE
+): ReferenceRow {
+	const values = samples.map((s) => leak(s.model, biasV, temperatureC));
+	const ok = values.filter((v) => v > 0);
+	const n = samples.length;
+	let largestUnit: string | null = null;
+	values.forEach((v, i) => {
+		if (largestUnit === null || v > values[samples.findIndex((s) => s.unit === largestUnit)]) largestUnit = samples[i].unit;
+	});
+	const k = ok.length >= 2 && ok.length === n ? toleranceFactor(n, coverage, confidence) : null;
+	return {
+		biasV,
+		temperatureC,
+		n,
+		median: n ? median(values) : NaN,
+		min: n ? Math.min(...values) : NaN,
+		max: n ? Math.max(...values) : NaN,
+		bound: k === null ? null : logNormalUpperBound(ok, k),
+		k,
+		largestUnit
+	};
+}

@@ -84,3 +84,37 @@ export function ngspiceAvailable(): boolean {
 		return false;
 	}
 }
+
+/** gmin=0 (no conductance across junctions); abstol and vntol far below the femtoamp currents compared. */
+export const PRECISE_OPTIONS = 'gmin=0 reltol=1e-10 abstol=1e-28 vntol=1e-15';
+
+/**
+ * The current into an exported SPICE block (a `.subckt NAME anode cathode` or a plain
+ * `.model NAME D`) at each bias, at one circuit temperature (`.temp`), read as the sum of
+ * the devices across the junction (diode, shunt resistor `Rsh`, recombination source
+ * `Brec`): through RS the source's branch current is only as good as the node voltages'
+ * last digits ÷ RS. ngspice's GMIN is set to zero here, in the test deck.
+ */
+export function blockCurrents(block: string, temperatureC: number, biasesV: number[]): number[] {
+	const sub = /^\.subckt (\S+)/m.exec(block)?.[1];
+	const model = /^\.model (\S+) D/im.exec(block)?.[1];
+	if (!sub && !model) throw new Error(`no .subckt or diode .model in\n${block}`);
+	const lines = [block, `.temp ${temperatureC}`];
+	const devices: string[][] = [];
+	biasesV.forEach((v, k) => {
+		lines.push(`v${k} n${k} 0 dc ${v}`);
+		if (sub) {
+			lines.push(`x${k} n${k} 0 ${sub}`);
+			devices.push([
+				`@d.x${k}.d1[id]`,
+				...(/^Rsh /m.test(block) ? [`@r.x${k}.rsh[i]`] : []),
+				...(/^Brec /m.test(block) ? [`@b.x${k}.brec[i]`] : [])
+			]);
+		} else {
+			lines.push(`d${k} n${k} 0 ${model}`);
+			devices.push([`@d${k}[id]`]);
+		}
+	});
+	const got = runNgspiceOp({ netlist: lines.join('\n'), prints: devices.flat(), options: PRECISE_OPTIONS });
+	return devices.map((ds) => ds.reduce((sum, d) => sum + got.get(d.toLowerCase())!, 0));
+}

@@ -6,15 +6,13 @@
  * ngspice's GMIN is set to zero in the test deck (not in the exported text).
  */
 import { describe, expect, it } from 'vitest';
-import { runNgspiceOp } from '../../../tests/reference/ngspice';
+import { blockCurrents } from '../../../tests/reference/ngspice';
 import { celsiusToKelvin, CODATA_2014, thermalVoltage } from './constants';
 import { createModel, type JunctionModelInput } from './model';
 import { diodeCurrent } from './shockley';
 import { parseModelCards } from './spice-card';
 import { asciiText, emitSpiceBlock, needsSubcircuit, shuntTce, spiceIdentifier, spiceNumber } from './spice-export';
 import { relativeDifference } from './test-helpers';
-
-const NG_OPTIONS = 'gmin=0 reltol=1e-10 abstol=1e-28 vntol=1e-15';
 
 // Invented parts, one per kind of block.
 const PARTS: [string, JunctionModelInput][] = [
@@ -36,24 +34,10 @@ describe('exported SPICE blocks against ngspice', () => {
 			const model = createModel(input);
 			const block = emitSpiceBlock({ name: `P_${label.replace(/-/g, '_')}`, model, comments: ['test part'] });
 			for (const tC of TEMPS_C) {
-				const lines = [block, `.temp ${tC}`];
-				const probes: string[] = [];
-				// The current is read as the sum of the devices across the junction: through RS the
-				// source's branch current is only as good as the node voltages' last digits ÷ RS.
-				const sub = needsSubcircuit(model);
-				const devices = (k: number) =>
-					sub
-						? [`@d.x${k}.d1[id]`, ...(model.RSH !== undefined ? [`@r.x${k}.rsh[i]`] : []), ...(model.ISR ? [`@b.x${k}.brec[i]`] : [])]
-						: [`@d${k}[id]`];
-				BIASES_V.forEach((v, k) => {
-					if (sub) lines.push(`v${k} n${k} 0 dc ${v}`, `x${k} n${k} 0 ${block.match(/^\.subckt (\S+)/m)![1]}`);
-					else lines.push(`v${k} n${k} 0 dc ${v}`, `d${k} n${k} 0 ${block.match(/^\.model (\S+)/m)![1]}`);
-					probes.push(...devices(k));
-				});
-				const got = runNgspiceOp({ netlist: lines.join('\n'), prints: probes, options: NG_OPTIONS });
+				const currents = blockCurrents(block, tC, BIASES_V);
 				const vt = thermalVoltage(celsiusToKelvin(tC), CODATA_2014);
 				BIASES_V.forEach((v, k) => {
-					const sim = devices(k).reduce((sum, d) => sum + got.get(d)!, 0);
+					const sim = currents[k];
 					const want = diodeCurrent(model, v, tC);
 					if (v === 0) return expect(Math.abs(sim)).toBeLessThan(1e-25);
 					const tol = v < -3 * model.N * vt ? 5e-3 : 1e-4;

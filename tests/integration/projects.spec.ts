@@ -187,6 +187,14 @@ describe('shortlist and review', () => {
 		expect(record.text).toContain('Approved for the rev B board.');
 		expect(record.text).toContain('guarding matters');
 		expect(record.text).toContain('licensed practice');
+		// The record carries each part's parameters and the card the .lib has for it.
+		expect(record.text).toContain('Models and SPICE cards as they stood');
+		expect(record.text).toContain(`.model ${good.partNumber}`);
+		// The library can also be made from each part's worst sample at the requirement's hot end.
+		const worstLib = await browse(`/projects/${id}/export/spice?sample=worst`, { as: 'designer' });
+		expect(worstLib.status).toBe(200);
+		expect(worstLib.text).toMatch(/leaks most at −5\.000 V|leaks most at -5\.000 V|worst sample not available/);
+		expect((await browse(`/projects/${id}/export/spice?sample=U1`, { as: 'designer' })).status).toBe(400);
 
 		// A model change afterwards: the decision's snapshot stays, the page shows both.
 		const eventBefore = evts[3];

@@ -14,6 +14,10 @@ export type TestPart = {
 	admitsLight?: boolean;
 	lifecycle?: 'in-use' | 'not-for-new' | 'retired';
 	ratedReverseV?: number | null;
+	ratedForwardA?: number | null;
+	shuntFactorPer10K?: number;
+	/** Each sample's unit label (default: none stored, so the app numbers them #1, #2 …). */
+	sampleUnits?: string[];
 	tags?: string[];
 	/** One model per sample (the first is also stored as typical unless `typical` is given). */
 	samples: StoredModel[];
@@ -39,6 +43,8 @@ export async function createParts(list: TestPart[]): Promise<number[]> {
 					admitsLight: p.admitsLight ?? false,
 					lifecycle: p.lifecycle ?? 'in-use',
 					ratedReverseV: p.ratedReverseV === undefined ? 30 : p.ratedReverseV,
+					ratedForwardA: p.ratedForwardA ?? null,
+					...(p.shuntFactorPer10K !== undefined ? { shuntFactorPer10K: p.shuntFactorPer10K } : {}),
 					tags: p.tags ?? []
 				})
 				.returning({ id: parts.id });
@@ -46,6 +52,7 @@ export async function createParts(list: TestPart[]): Promise<number[]> {
 				partId: row.id,
 				typical: p.typical ?? p.samples[0],
 				sampleModels: p.samples,
+				sampleUnits: p.sampleUnits ?? [],
 				measured: p.measured ?? WELL_MEASURED,
 				sampleCount: p.samples.length,
 				isMeasured: (p.measured ?? WELL_MEASURED).minCurrentA !== null,

@@ -24,6 +24,7 @@ export const catalogueRoutes: RouteCase[] = [
 	{ route: '/api/v1/junctions', method: 'POST', path: '/api/v1/junctions', allow: ['librarian'], kind: 'api', json: {} },
 	{ route: '/api/v1/junctions/[id=id]', method: 'GET', path: '/api/v1/junctions/1', allow: 'any-role', kind: 'api' },
 	{ route: '/api/v1/junctions/[id=id]', method: 'PATCH', path: '/api/v1/junctions/1', allow: ['librarian'], kind: 'api', json: {} },
+	{ route: '/api/v1/junctions/[id=id]/spice', method: 'GET', path: '/api/v1/junctions/1/spice', allow: 'any-role', kind: 'api' },
 	{ route: '/api/v1/junctions/[id=id]/runs', method: 'POST', path: '/api/v1/junctions/1/runs', allow: ['librarian'], kind: 'api', json: {} },
 	{ route: '/api/v1/junctions/[id=id]/runs/[runId=id]', method: 'GET', path: '/api/v1/junctions/1/runs/1', allow: 'any-role', kind: 'api' },
 	{ route: '/api/v1/junctions/[id=id]/runs/[runId=id]', method: 'PATCH', path: '/api/v1/junctions/1/runs/1', allow: ['librarian'], kind: 'api', json: {} },

@@ -14,6 +14,7 @@ import {
 	type JunctionModel,
 	type LabelledModel
 } from '$lib/junction';
+import { median } from 'simple-statistics';
 
 export type Point = { x: number; y: number };
 export type SampleCurve = { unit: string; points: Point[] };
@@ -33,12 +34,6 @@ export type ReferenceRow = {
 	/** The unit leaking most at this condition. */
 	largestUnit: string | null;
 };
-
-function median(xs: number[]): number {
-	const s = [...xs].sort((a, b) => a - b);
-	const m = s.length >> 1;
-	return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
-}
 
 /** |I| of a model at a bias [V] and temperature [°C], NaN when it cannot be evaluated. */
 function leak(model: JunctionModel, biasV: number, temperatureC: number): number {

@@ -2,6 +2,7 @@
 // or its given model. Called inside the transaction that changed a fit, a run's state, a
 // sample or the given model.
 import { and, asc, eq, isNull, sql } from 'drizzle-orm';
+import { median } from 'simple-statistics';
 import { db, type DbOrTx } from './db';
 import { fits, partModels, parts, runs, samples, type StoredModel } from './db/schema';
 import { notifyModelChanged } from './model-events';
@@ -10,12 +11,6 @@ import type { Material } from '$lib/catalogue/vocabulary';
 
 /** The run temperature each sample is represented by: the one nearest SPICE's TNOM default. */
 export const NOMINAL_C = 27;
-
-function median(xs: number[]): number {
-	const s = [...xs].sort((a, b) => a - b);
-	const m = s.length >> 1;
-	return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
-}
 
 type SampleFit = { sampleId: number; unit: string; model: StoredModel; rms: number };
 

@@ -1,5 +1,6 @@
-// The designer's ranking screen: live re-ranking as the operating point changes,
-// adding a part to a shortlist, and how the page looks at 1280 px and at 200 % zoom.
+// The designer's ranking screen: live re-ranking as the operating point changes, the
+// ranking basis chosen from the keyboard, adding a part to a shortlist, and how the page
+// looks at 1280 px and at 200 % zoom.
 import postgres from 'postgres';
 import { test, expect, signInAs, screenshot } from './fixtures';
 
@@ -9,9 +10,14 @@ const DESIGNER = 'designer@demo.test';
 // (lower leakage near zero bias) but a 1 TΩ shunt that dominates at −10 V, where
 // HIGHIS-1 (larger IS, no shunt) leaks less. At −0.1 V: LOWSHUNT-1 ≈ 0.1 V/1 TΩ = 0.1 pA
 // plus 1 fA; HIGHIS-1 ≈ 5 pA. At −10 V: LOWSHUNT-1 ≈ 10 pA; HIGHIS-1 ≈ 5 pA.
+// WIDE-1's three samples spread ×25 (IS 10, 50 and 250 aA, leaking about IS at −0.1 V):
+// the lowest typical (0.05 pA), a worst sample of 0.25 pA between the others, and a bound
+// far above both (exp(ȳ + k·s) with s = ln 5 and k = 5.311 for n = 3, Natrella NBS
+// Handbook 91 Table A-7: ≈ 0.05 pA × 5^5.311 ≈ 250 pA); HIGHIS-1's bound is ≈ 11 pA.
 const stamp = Date.now().toString(36);
 const LOW = `LOWSHUNT-${stamp}`;
 const HIGH = `HIGHIS-${stamp}`;
+const WIDE = `WIDE-${stamp}`;
 let sql: postgres.Sql | null = null;
 let ids: number[] = [];
 /** One sign-in for the whole file (sign-in links are limited per address). */
@@ -26,13 +32,14 @@ test.beforeAll(async ({ browser }) => {
 
 	sql = postgres(process.env.DATABASE_URL!, { max: 1, onnotice: () => {} });
 	const measured = { minCurrentA: 1e-15, temperaturesC: [25, 85], reverseMeasured: true, worstRmsResidualV: 5e-4 };
-	for (const [partNumber, model] of [
-		[LOW, { IS: 1e-15, N: 1, TNOM: 27, RSH: 1e12, EG: 1.11, XTI: 3 }],
-		[HIGH, { IS: 5e-12, N: 1, TNOM: 27, EG: 1.11, XTI: 3 }]
+	for (const [partNumber, model, spread] of [
+		[LOW, { IS: 1e-15, N: 1, TNOM: 27, RSH: 1e12, EG: 1.11, XTI: 3 }, [1, 1.2, 0.9]],
+		[HIGH, { IS: 5e-12, N: 1, TNOM: 27, EG: 1.11, XTI: 3 }, [1, 1.2, 0.9]],
+		[WIDE, { IS: 5e-14, N: 1, TNOM: 27, EG: 1.11, XTI: 3 }, [1, 5, 0.2]]
 	] as const) {
 		const [row] = await sql`insert into parts (part_number, maker, kind, package, rated_reverse_v, shunt_factor_per_10k)
 			values (${partNumber}, 'Orrin Devices', 'diode', 'SOD-323', 50, 1) returning id`;
-		const samples = [model, { ...model, IS: model.IS * 1.2 }, { ...model, IS: model.IS * 0.9 }];
+		const samples = spread.map((f) => ({ ...model, IS: model.IS * f }));
 		await sql`insert into part_models (part_id, typical, sample_models, measured, sample_count, is_measured, version)
 			values (${row.id}, ${sql.json(model)}, ${sql.json(samples)}, ${sql.json(measured)}, 3, true, 1)`;
 		await sql`select pg_notify('junction_models', ${String(row.id)})`;
@@ -48,10 +55,10 @@ test.afterAll(async () => {
 	await sql?.end();
 });
 
-/** Part numbers in table order, restricted to this test's two parts. */
-async function order(page: import('@playwright/test').Page) {
+/** Part numbers in table order, restricted to the given parts of this test (by default LOW and HIGH). */
+async function order(page: import('@playwright/test').Page, only: string[] = [LOW, HIGH]) {
 	const names = await page.locator('tbody tr').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-part')));
-	return names.filter((n) => n === LOW || n === HIGH);
+	return names.filter((n): n is string => n !== null && only.includes(n));
 }
 
 /** A page in a context that carries the file's one sign-in. */
@@ -70,8 +77,9 @@ async function openRank(page: import('@playwright/test').Page, query: string) {
 
 test('a designer changes bias and temperature and the order changes live', async ({ browser }) => {
 	const page = await signedInPage(browser);
-	await openRank(page, `v=-0.1&thi=25&q=${stamp}`);
-	await expect(page.getByRole('heading', { name: 'Ranked by worst-case leakage' })).toBeVisible();
+	// On the worst sample: HIGHIS-1's bound (≈ 11 pA) would sit above LOWSHUNT-1's 10 pA at −10 V.
+	await openRank(page, `v=-0.1&thi=25&q=${stamp}&basis=worst`);
+	await expect(page.getByRole('heading', { name: 'Ranked by worst measured sample' })).toBeVisible();
 	await expect.poll(() => order(page)).toEqual([LOW, HIGH]);
 	const bias = page.getByLabel('Bias across the junction (positive is forward)');
 	const before = page.url();
@@ -86,6 +94,48 @@ test('a designer changes bias and temperature and the order changes live', async
 	await bias.fill('minus five');
 	await expect(page.getByText(/expected a voltage/)).toBeVisible();
 	await expect.poll(() => order(page)).toEqual([LOW, HIGH]);
+});
+
+test('a designer picks the ranking basis from the keyboard; the heading, the order and the URL follow', async ({ browser }) => {
+	const page = await signedInPage(browser);
+	const all = [LOW, HIGH, WIDE];
+	await openRank(page, `v=-0.1&thi=25&q=${stamp}`);
+	await expect(page.getByRole('heading', { name: 'Ranked by statistical bound (95 % of parts, 90 % confidence)' })).toBeVisible();
+	await expect.poll(() => order(page, all)).toEqual([LOW, HIGH, WIDE]);
+	await expect(page.locator(`tr[data-part="${WIDE}"]`)).toContainText('bound');
+	// The chooser is one radio group: Tab reaches the chosen basis, arrow keys move the choice.
+	const bound = page.getByRole('radio', { name: 'statistical bound' });
+	await bound.focus();
+	await expect(bound).toBeChecked();
+	await page.keyboard.press('ArrowRight');
+	await expect(page.getByRole('radio', { name: 'worst measured sample' })).toBeChecked();
+	await expect(page.getByRole('heading', { name: 'Ranked by worst measured sample' })).toBeVisible();
+	await expect.poll(() => order(page, all)).toEqual([LOW, WIDE, HIGH]);
+	await page.keyboard.press('ArrowRight');
+	await expect(page.getByRole('heading', { name: 'Ranked by typical (median) sample' })).toBeVisible();
+	await expect.poll(() => order(page, all)).toEqual([WIDE, LOW, HIGH]);
+	await expect.poll(() => new URL(page.url()).searchParams.get('basis')).toBe('typical');
+	await screenshot(page, 'rank-basis-typical-1280');
+	// Back on the bound, a stricter coverage is typed as a percentage and stated in the heading.
+	await page.keyboard.press('ArrowLeft');
+	await page.keyboard.press('ArrowLeft');
+	await expect(bound).toBeChecked();
+	await page.getByLabel('Fraction of parts the statistical bound covers').fill('99 %');
+	await expect(page.getByRole('heading', { name: 'Ranked by statistical bound (99 % of parts, 90 % confidence)' })).toBeVisible();
+	await expect.poll(() => new URL(page.url()).searchParams.get('cov')).toBe('0.99');
+	await page.getByLabel('Fraction of parts the statistical bound covers').fill('120 %');
+	await expect(page.getByText(/coverage must lie between 0\.5 and 0\.999/)).toBeVisible();
+
+	// The part page of the widely spread part: every sample, the envelope and the bound at the reference conditions.
+	await page.goto(`/parts/${ids[2]}`);
+	const reference = page.getByTestId('reference-table');
+	await expect(reference).toContainText('k 5.311');
+	await expect(reference).toContainText('−0.100 V, 25 °C');
+	await page.setViewportSize({ width: 390, height: 900 });
+	await page.waitForTimeout(300);
+	const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+	expect(overflow, 'the part page must not scroll sideways at 390 px').toBeLessThanOrEqual(1);
+	await screenshot(page, 'part-samples-390');
 });
 
 test('a designer adds a part to a project shortlist', async ({ browser }) => {

@@ -16,12 +16,12 @@ import {
 	BIT_OVER_LEAKAGE_TARGET,
 	BIT_OVER_REVERSE_RATING,
 	BIT_TEMPERATURE_EXTRAPOLATED,
-	flagBit,
 	flagsFromBits,
 	LIMIT_BITS,
-	POOR_FIT_RMS_V
+	staticFlagsOf
 } from './rank-flags';
 import { CatalogueCaches, medianOfPrefix } from './catalogue-caches';
+import { BoundsOnDemand } from './bounds-on-demand';
 import { orderGroups } from './rank-order';
 import type { PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
 import { toleranceFactor } from './tolerance';
@@ -70,13 +70,13 @@ export class CatalogueTable {
 	private maxSamples = 1;
 	private scratchHot = new Float64Array(0);
 	private scratchSort = new Float64Array(0);
-	private scratchLog = new Float64Array(0);
 	private scratchGroups = new Int32Array(0);
 	private bucket = new Uint8Array(0);
 	private counts = new Int32Array(GROUPS + 1);
 	private resultColumns = new Float64Array(0);
 	private resultFlags = new Uint32Array(0);
 	private scratchKeys = new Float64Array(0);
+	private bounds!: BoundsOnDemand;
 	private caches!: CatalogueCaches;
 	private factorCache = new Map<string, Float64Array>();
 
@@ -146,10 +146,10 @@ export class CatalogueTable {
 		this.maxSamples = maxSamples;
 		this.scratchHot = new Float64Array(all.length);
 		this.scratchSort = new Float64Array(maxSamples);
-		this.scratchLog = new Float64Array(maxSamples);
 		this.scratchGroups = new Int32Array(n);
 		this.bucket = new Uint8Array(n);
 		this.scratchKeys = new Float64Array(n);
+		this.bounds = new BoundsOnDemand(start, count, maxSamples);
 		this.caches = new CatalogueCaches(this.models, start, count, this.temps, tempOffsets, maxSamples);
 		this.factorCache = new Map();
 		this.resultColumns = new Float64Array(0);
@@ -208,8 +208,15 @@ export class CatalogueTable {
 		this.partLoop(op, cold, hot, hotI, include, constants, BASIS_INDEX[basis], factors, typicalA, worstA, boundA, dropWorstV, capacitanceF, flags);
 		const counts = this.counts;
 		const excluded = counts[EXCLUDED] > 0 ? overRating(flags, include, counts[EXCLUDED]) : new Int32Array(0);
-		const basisA = basis === 'bound' ? boundA : basis === 'worst' ? worstA : typicalA;
-		const order = orderGroups(this.bucket, counts.subarray(0, GROUPS), UNLISTED, (b) => (b & NO_VALUE ? typicalA : basisA), typicalA, limit, this.scratchGroups, this.scratchKeys);
+		// Bounds are computed where the order needs them (bounds-on-demand.ts), then for every listed part.
+		const keyOf = (b: number, members: Int32Array, take: number) =>
+			b & NO_VALUE || basis === 'typical'
+				? typicalA
+				: basis === 'worst'
+					? worstA
+					: this.bounds.keys(members, take, hotI, factors, { boundA, worstA, typicalA }, this.scratchKeys);
+		const order = orderGroups(this.bucket, counts.subarray(0, GROUPS), UNLISTED, keyOf, typicalA, limit, this.scratchGroups, this.scratchKeys);
+		this.bounds.settleAll(order, hotI, factors, boundA);
 		let ranked = 0;
 		let meetingLimits = 0;
 		for (let b = 0; b < GROUPS; b++) {
@@ -228,7 +235,7 @@ export class CatalogueTable {
 			worstA,
 			boundA,
 			factorByCount: factors,
-			sampleA: options.reuse ? hotI : Float64Array.from(hotI),
+			sampleA: options.reuse ? hotI : hotI.slice(),
 			dropHotV,
 			dropColdV,
 			dropWorstV,
@@ -258,8 +265,9 @@ export class CatalogueTable {
 	 * The per-part pass of `rank` (its own function so the engine optimises it whole):
 	 * statistics over samples (typical, worst, bound), flags, and each listed part's rank
 	 * group in `bucket` with `counts` per group (and excluded parts in counts[EXCLUDED]).
-	 * The bound is exp(ȳ + k·s) over y = ln|I| (two passes; tolerance.ts); a part whose
-	 * samples all leak exactly zero (zero bias) has a zero bound.
+	 * The bound is left pending (NaN; bounds-on-demand.ts) unless the leakage budget needs
+	 * it now: ranked on the bound with a budget at or above the part's least sample. A part
+	 * whose samples all leak exactly zero (zero bias) has a zero bound.
 	 */
 	private partLoop(
 		op: OperatingPoint,
@@ -284,7 +292,9 @@ export class CatalogueTable {
 		const maxCap = op.maxCapacitanceF;
 		const clampA = op.clampCurrentA ?? 0;
 		const sort = this.scratchSort;
-		const logs = this.scratchLog;
+		const least = this.bounds.least;
+		const pending = this.bounds.pending;
+		const onBound = basis === 0;
 		const farCold = this.caches.farAt(cold);
 		const farHot = this.caches.farAt(hot);
 		const mid = 0.5 * (hot + cold);
@@ -310,36 +320,39 @@ export class CatalogueTable {
 			let worst = 0;
 			let typical: number;
 			let bound = NaN;
+			let hasBound = false;
+			pending[p] = 0;
 			if (c === 1) {
 				// One sample: it is the median, and there is no bound; NaN stays out of the worst, as below.
 				typical = Math.abs(hotI[s0]);
 				if (typical > 0) worst = typical;
 			} else {
-				let sumLog = 0;
 				for (let k = 0; k < c; k++) {
 					const a = Math.abs(hotI[s0 + k]);
 					sort[k] = a;
 					if (a > worst) worst = a;
-					const y = Math.log(a);
-					logs[k] = y;
-					sumLog += y;
 				}
 				typical = medianOfPrefix(sort, c);
 				if (given[p] === 0) {
+					hasBound = true;
+					// sort[0] is the least sample now (NaN, if any, sorts nowhere in particular: then no cap).
+					const low = sort[0];
 					if (worst === 0) bound = 0;
-					else {
-						const mean = sumLog / c;
-						let ss = 0;
-						for (let k = 0; k < c; k++) ss += (logs[k] - mean) * (logs[k] - mean);
-						bound = Math.exp(mean + factors[c] * Math.sqrt(ss / (c - 1)));
+					else if (onBound && maxLeak !== Infinity && !(low > maxLeak)) {
+						least[p] = low;
+						bound = this.bounds.settle(p, hotI, factors, boundA);
+					} else {
+						least[p] = low === low ? low : 0;
+						pending[p] = 1;
 					}
 				}
 			}
 			typicalA[p] = typical;
 			worstA[p] = worst;
 			boundA[p] = bound;
-			const value = basis === 0 ? bound : basis === 1 ? worst : typical;
-			const hasValue = value === value;
+			// A pending bound is above the budget (its least sample is) or there is no budget.
+			const value = basis === 0 ? (pending[p] ? least[p] : bound) : basis === 1 ? worst : typical;
+			const hasValue = basis === 0 ? hasBound : value === value;
 			let f = staticFlags[p];
 			if (typical < minMeasured[p] / 10) f |= BIT_CURRENT_EXTRAPOLATED;
 			if (farCold[p] | farHot[p]) f |= BIT_TEMPERATURE_EXTRAPOLATED;
@@ -424,18 +437,6 @@ export class CatalogueTable {
 		for (let k = 0; k < c; k++) sort[k] = this.models.capacitance(this.start[p] + k, biasV, temperatureC, constants);
 		return medianOfPrefix(sort, c);
 	}
-}
-
-/** Flags that hold for a part whatever the operating point. */
-function staticFlagsOf(p: PartRecord): number {
-	let f = 0;
-	if (!p.measured.reverseMeasured) f |= flagBit('reverse-not-measured');
-	if (p.kind === 'schottky' || p.samples.some((s) => s.material === 'metal-semiconductor')) f |= flagBit('metal-semiconductor');
-	if (p.transparentPackage || p.kind === 'led') f |= flagBit('light-sensitive');
-	if ((p.fitRmsResidualV ?? 0) > POOR_FIT_RMS_V) f |= flagBit('poor-fit');
-	if (p.samples.length < 3) f |= flagBit('few-samples');
-	if (p.samples.some((s) => s.egAssumed)) f |= flagBit('band-gap-assumed');
-	return f;
 }
 
 /** The `count` parts flagged over their reverse rating (among the included ones), in index order. */

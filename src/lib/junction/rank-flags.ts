@@ -4,6 +4,7 @@
  * and the exports; importing it pulls in nothing else of the rank core.
  */
 import { MATERIAL_DEFAULTS } from './model';
+import type { PartRecord } from './rank-types';
 
 /** Stable flag codes (the API's), in the order screens list them; see FLAG_WORDS for the words. */
 export const FLAG_CODES = [
@@ -135,3 +136,15 @@ export const BIT_OVER_CAPACITANCE_LIMIT = flagBit('over-capacitance-limit');
  */
 export const LIMIT_BITS =
 	BIT_FORWARD_DROP_OVER_LIMIT | BIT_OVER_LEAKAGE_TARGET | BIT_OVER_CAPACITANCE_LIMIT | BIT_OVER_REVERSE_RATING | BIT_OVER_FORWARD_RATING;
+
+/** Flags that hold for a part whatever the operating point. */
+export function staticFlagsOf(p: PartRecord): number {
+	let f = 0;
+	if (!p.measured.reverseMeasured) f |= flagBit('reverse-not-measured');
+	if (p.kind === 'schottky' || p.samples.some((s) => s.material === 'metal-semiconductor')) f |= flagBit('metal-semiconductor');
+	if (p.transparentPackage || p.kind === 'led') f |= flagBit('light-sensitive');
+	if ((p.fitRmsResidualV ?? 0) > POOR_FIT_RMS_V) f |= flagBit('poor-fit');
+	if (p.samples.length < 3) f |= flagBit('few-samples');
+	if (p.samples.some((s) => s.egAssumed)) f |= flagBit('band-gap-assumed');
+	return f;
+}

@@ -190,7 +190,9 @@ function selectSmallest(a: Float64Array, k: number): void {
  * Parts listed in rank groups, in order, at most `limit`: `bucket[p]` is part p's group
  * (0 … counts.length − 1, listed in that order; `unlisted` leaves it out) and `counts` the
  * size of each group. Members are gathered by a counting sort (index order kept), then
- * each group is ordered by `orderByKey` with `keyOf(group)` as key and `tie` as the tie,
+ * each group is ordered by `orderByKey` with `keyOf(group, members, take)` as key (its
+ * members and how many of them will be taken, so a key computed on demand need only be
+ * exact where it can matter) and `tie` as the tie,
  * until `limit` parts are taken.
  * @param groups work array of at least as many entries as listed parts
  * @param scratch work array for `orderByKey`
@@ -199,7 +201,7 @@ export function orderGroups(
 	bucket: Uint8Array,
 	counts: Int32Array,
 	unlisted: number,
-	keyOf: (group: number) => Float64Array,
+	keyOf: (group: number, members: Int32Array, take: number) => Float64Array,
 	tie: Float64Array,
 	limit: number,
 	groups: Int32Array,
@@ -217,7 +219,9 @@ export function orderGroups(
 	let taken = 0;
 	for (let b = 0; b < g && taken < limit; b++) {
 		if (counts[b] === 0) continue;
-		const piece = orderByKey(groups.subarray(offsets[b], offsets[b + 1]), keyOf(b), tie, limit - taken, scratch);
+		const members = groups.subarray(offsets[b], offsets[b + 1]);
+		const take = Math.min(members.length, limit - taken);
+		const piece = orderByKey(members, keyOf(b, members, take), tie, take, scratch);
 		pieces.push(piece);
 		taken += piece.length;
 	}

@@ -97,7 +97,10 @@ export interface RankResult {
 	confidence: number;
 	typicalA: Float64Array;
 	worstA: Float64Array;
-	/** Statistical bound [A]; NaN for parts with fewer than two measured samples. */
+	/**
+	 * Statistical bound [A] of every part in `order`; NaN for parts with fewer than two
+	 * measured samples, and for parts left out of `order` whose bound the ranking did not need.
+	 */
 	boundA: Float64Array;
 	/** Tolerance factor by measured sample count (NaN below two). */
 	factorByCount: Float64Array;

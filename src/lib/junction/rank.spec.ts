@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { CatalogueTable, explainFlag, FLAG_CODES, orderByKey, toleranceFactor, type PartRecord } from './rank';
+import { CatalogueTable, explainFlag, FLAG_CODES, logNormalUpperBound, orderByKey, toleranceFactor, type PartRecord } from './rank';
 import { JUNCTION_KINDS } from './names';
 import { mulberry32 } from '../random';
 import { ModelTable } from './model-table';
@@ -335,6 +335,43 @@ describe('ranking basis, statistical bound and evidence', () => {
 		expect(wide.leakageA.bound!).toBeGreaterThan(row.leakageA.bound!);
 		expect(() => table.rank({ ...op, coverage: 1.2 })).toThrow(RangeError);
 		expect(() => table.rank({ ...op, basis: 'best' as never })).toThrow(RangeError);
+	});
+
+	it('a short list on the bound is the full order cut, each listed bound exact, with and without a budget', () => {
+		// Short lists compute bounds only where they can matter (least sample below the list's
+		// largest bound); this checks that shortcut against the full order, which computes all.
+		const r = mulberry32(17);
+		const recs: PartRecord[] = [];
+		for (let k = 0; k < 1500; k++) {
+			const n = 2 + Math.floor(r() * 5);
+			// Half tight (bound just above the least sample, the case the shortcut must not cut), half up to two decades apart.
+			const spreadOf = r() < 0.5 ? 1 + 0.05 * r() : 10 ** (2 * r());
+			recs.push(spread(`p${k}`, 10 ** (-15 + 2 * r()), Array.from({ length: n }, () => spreadOf ** (r() - 0.5))));
+		}
+		// Equal samples and a one-sample part, where bound and least sample meet or there is no bound.
+		recs.push(spread('flat', 3e-15, [1, 1, 1]), spread('one', 1e-16, [1]));
+		// Leading the list: pairs with a low worst sample but a wide bound (k = 13.09 at n = 2) and
+		// a ten-sample part whose worst sample is higher but whose bound is lowest; its least
+		// sample sits just below the pairs' bounds, so only an exact cap keeps it in.
+		for (let k = 0; k < 40; k++) recs.push(spread(`pair${k}`, 1e-17 * (1 + 0.001 * k), [1, 1.15]));
+		recs.push(spread('tight', 1e-17, Array.from({ length: 10 }, (_, k) => 3.5 + 0.02 * k)));
+		const table = new CatalogueTable(recs);
+		for (const extra of [{}, { maxLeakageA: 2e-12 }, { coverage: 0.999, confidence: 0.999 }]) {
+			const at = { ...op, ...extra };
+			const full = table.rank(at);
+			expect(table.part(full.order[0]).id).toBe('tight');
+			for (const limit of [1, 10, 50, 93]) {
+				const cut = table.rank(at, undefined, { limit });
+				expect(Array.from(cut.order), `${JSON.stringify(extra)} limit ${limit}`).toEqual(Array.from(full.order.subarray(0, limit)));
+				expect(cut.meetingLimits).toBe(full.meetingLimits);
+				for (const row of table.rows(cut, at, 0, limit)) {
+					const i = recs.findIndex((x) => x.id === row.id);
+					const values = Array.from({ length: recs[i].samples.length }, (_, k) => Math.abs(cut.sampleA[table.sampleStart(i) + k]));
+					if (values.length < 2) expect(row.leakageA.bound).toBeNull();
+					else expectRelClose(row.leakageA.bound!, logNormalUpperBound(values, row.bound!.k), 1e-12);
+				}
+			}
+		}
 	});
 
 	it('ranks a given-model part with the lowest IS after every measured part, under every basis', () => {

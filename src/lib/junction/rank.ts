@@ -5,6 +5,7 @@
  *  - operating-point.ts  the operating point, the basis (bound / worst / typical), temperature ends;
  *  - rank-flags.ts       the flag vocabulary (codes, words, bits, which flags are limits);
  *  - catalogue-table.ts  the in-memory table: evaluation, per-part statistics, flags, groups;
+ *  - bounds-on-demand.ts statistical bounds computed only where the order or the list needs them;
  *  - rank-order.ts       ordering and selection of part indices by key columns;
  *  - tolerance.ts        the noncentral-t tolerance factor and the log-normal bound;
  *  - rank-types.ts       records in, columns and rows out.

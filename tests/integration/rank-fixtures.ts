@@ -1,9 +1,12 @@
 // Invented catalogue parts for the ranking tests: parts + part_models rows written
 // directly (as the catalogue would after fitting), announced on the model channel.
 import { inArray } from 'drizzle-orm';
+import { expect } from 'vitest';
+import type { RankOperatingPoint, RankResponse } from '../../src/lib/schemas/rank';
 import { db } from '../../src/lib/server/db';
 import { partModels, parts, type StoredModel } from '../../src/lib/server/db/schema';
 import { notifyModelChanged } from '../../src/lib/server/model-events';
+import { api } from './helpers';
 
 export type TestPart = {
 	partNumber: string;
@@ -71,4 +74,21 @@ export async function deleteParts(ids: number[]) {
 		await tx.delete(parts).where(inArray(parts.id, ids));
 		for (const id of ids) await notifyModelChanged(tx, id);
 	});
+}
+
+/** POST /api/v1/rank as a designer (up to 1000 items unless the body says otherwise), expecting 200. */
+export async function rank(body: RankOperatingPoint & { limit?: number; withSamples?: boolean }): Promise<RankResponse> {
+	const r = await api<RankResponse>('POST', '/api/v1/rank', { as: 'designer', json: { limit: 1000, ...body } });
+	expect(r.status, JSON.stringify(r.body)).toBe(200);
+	return r.body;
+}
+
+/** Waits until the server's model cache (another process, fed by NOTIFY) lists n parts for q. */
+export async function seen(q: string, n: number): Promise<void> {
+	for (let i = 0; i < 100; i++) {
+		const r = await rank({ biasV: -1, temperatureC: 25, q, includeOverRating: true });
+		if (r.evaluated === n) return;
+		await new Promise((res) => setTimeout(res, 100));
+	}
+	throw new Error(`the server never saw ${n} parts for '${q}'`);
 }

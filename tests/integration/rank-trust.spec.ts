@@ -10,31 +10,13 @@
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { celsiusToKelvin, CODATA_2014, thermalVoltage, toleranceFactor, logNormalUpperBound } from '$lib/junction';
 import type { StoredModel } from '$lib/server/db/schema';
-import type { RankItem, RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
+import type { RankItem, RankResponse } from '$lib/schemas/rank';
 import { blockCurrents } from '../reference/ngspice';
 import { api, browse, unique } from './helpers';
-import { createParts, deleteParts, type TestPart } from './rank-fixtures';
+import { createParts, deleteParts, rank, seen, type TestPart } from './rank-fixtures';
 
 const created: number[] = [];
 afterAll(async () => deleteParts(created));
-
-type RankBody = RankOperatingPoint & { limit?: number; withSamples?: boolean };
-
-async function rank(body: RankBody) {
-	const r = await api<RankResponse>('POST', '/api/v1/rank', { as: 'designer', json: { limit: 1000, ...body } });
-	expect(r.status, JSON.stringify(r.body)).toBe(200);
-	return r.body;
-}
-
-/** Waits until the server's model cache (another process, fed by NOTIFY) lists n parts for q. */
-async function seen(q: string, n: number) {
-	for (let i = 0; i < 100; i++) {
-		const r = await rank({ biasV: -1, temperatureC: 25, q, includeOverRating: true });
-		if (r.evaluated === n) return;
-		await new Promise((res) => setTimeout(res, 100));
-	}
-	throw new Error(`the server never saw ${n} parts for '${q}'`);
-}
 
 const rel = (a: number, b: number) => (a === b ? 0 : Math.abs(a - b) / Math.max(Math.abs(a), Math.abs(b)));
 const silicon = (IS: number, extra: Partial<StoredModel> = {}): StoredModel => ({ IS, N: 1.05, RS: 1, TNOM: 27, ...extra });

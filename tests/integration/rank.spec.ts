@@ -7,33 +7,13 @@
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { createModel, emitModelCard, CODATA_2014, thermalVoltage, celsiusToKelvin } from '$lib/junction';
 import type { StoredModel } from '$lib/server/db/schema';
-import { FLAG_WORDS, type RankItem, type RankOperatingPoint, type RankResponse } from '$lib/schemas/rank';
-import { runNgspiceOp } from '../reference/ngspice';
+import { FLAG_WORDS, type RankItem, type RankOperatingPoint } from '$lib/schemas/rank';
+import { PRECISE_OPTIONS, runNgspiceOp } from '../reference/ngspice';
 import { api, browse, unique } from './helpers';
-import { createParts, deleteParts, WELL_MEASURED, type TestPart } from './rank-fixtures';
-
-// gmin=0 (no conductance across junctions); abstol and vntol far below the femtoamp
-// currents compared, or ngspice stops iterating before the last digits settle.
-const NG_OPTIONS = 'gmin=0 reltol=1e-10 abstol=1e-28 vntol=1e-15';
+import { createParts, deleteParts, rank, seen, WELL_MEASURED, type TestPart } from './rank-fixtures';
 
 const created: number[] = [];
 afterAll(async () => deleteParts(created));
-
-async function rank(op: RankOperatingPoint & { limit?: number }) {
-	const r = await api<RankResponse>('POST', '/api/v1/rank', { as: 'designer', json: { limit: 1000, ...op } });
-	expect(r.status, JSON.stringify(r.body)).toBe(200);
-	return r.body;
-}
-
-/** Waits until the server's model cache (another process, fed by NOTIFY) lists n parts for q. */
-async function seen(q: string, n: number) {
-	for (let i = 0; i < 100; i++) {
-		const r = await rank({ biasV: -1, temperatureC: 25, q, includeOverRating: true });
-		if (r.evaluated === n) return;
-		await new Promise((res) => setTimeout(res, 100));
-	}
-	throw new Error(`the server never saw ${n} parts for '${q}'`);
-}
 
 // Invented catalogue: six parts, three samples each (IS spread ×0.6…×1.7), plain SPICE
 // diode models without shunt so that ngspice's diode element is the whole reference.
@@ -101,7 +81,7 @@ function ngspiceExpectations(op: RankOperatingPoint): Expected[] {
 		});
 		plan.push(entry);
 	});
-	const values = runNgspiceOp({ netlist: lines.join('\n'), prints, options: NG_OPTIONS });
+	const values = runNgspiceOp({ netlist: lines.join('\n'), prints, options: PRECISE_OPTIONS });
 	const vt = thermalVoltage(celsiusToKelvin(hot), CODATA_2014);
 	return plan.map((e) => {
 		// The diode's own current: through RS, the source's current is only as good as vntol × 1/RS.
@@ -155,7 +135,7 @@ describe('ranking against ngspice', () => {
 		const lines = [emitModelCard('pm', m, { forSimulator: true })];
 		biasV.forEach((v, i) => lines.push(`v${i} a${i} 0 dc ${v}`, `dp${i} a${i} 0 pm temp=60`));
 		lines.push('isrc 0 f dc 1e-3', 'df f 0 pm temp=60');
-		const ref = runNgspiceOp({ netlist: lines.join('\n'), prints: [...biasV.map((_, i) => `@dp${i}[id]`), 'v(f)'], options: NG_OPTIONS });
+		const ref = runNgspiceOp({ netlist: lines.join('\n'), prints: [...biasV.map((_, i) => `@dp${i}[id]`), 'v(f)'], options: PRECISE_OPTIONS });
 		const vt = thermalVoltage(celsiusToKelvin(60), CODATA_2014);
 		biasV.forEach((v, i) => {
 			const tol = v < -3 * 1.1 * vt ? 5e-3 : 2e-5;

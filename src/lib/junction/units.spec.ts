@@ -40,6 +40,19 @@ describe('parsing quantities as typed', () => {
 		expectRelClose(parseQuantity(text, kind), expected, 1e-15, text);
 	});
 
+	// The value of a typed decimal is the double nearest to it (IEEE 754-2019 §5.12.2,
+	// correctly rounded conversion): the same as JavaScript's own reading of "10e-15".
+	it.each([
+		['10f', 'current', '10e-15'],
+		['200 mA', 'current', '200e-3'],
+		['0.7m', 'voltage', '0.7e-3'],
+		['3.3n', 'capacitance', '3.3e-9'],
+		['1.5e-3 k', 'resistance', '1.5e0'],
+		['4.7 meg', 'resistance', '4.7e6']
+	] as const)('%s as %s is exactly the double nearest %s, with no rounding noise', (text, kind, decimal) => {
+		expect(parseQuantity(text, kind)).toBe(Number(decimal));
+	});
+
 	it('has kind-specific helpers', () => {
 		expect(parseVoltage('1.2 V')).toBe(1.2);
 		expectRelClose(parseCurrent('5nA'), 5e-9, 1e-15);

@@ -71,7 +71,7 @@ export function parseQuantity(text: string, kind: QuantityKind = 'number'): numb
 	const s = normalise(text);
 	const m = NUMBER_RE.exec(s);
 	if (!m) fail(kind, text);
-	const mantissa = Number(m[1].replace(',', '.'));
+	const mantissa = m[1].replace(',', '.');
 	const rest = m[2].trim();
 	let scale = 1;
 	const units = KIND_INFO[kind].units;
@@ -88,9 +88,20 @@ export function parseQuantity(text: string, kind: QuantityKind = 'number'): numb
 	} else {
 		fail(kind, text);
 	}
-	const value = mantissa * scale;
+	const value = scaled(mantissa, scale);
 	if (!Number.isFinite(value)) fail(kind, text);
 	return value;
+}
+
+/**
+ * `mantissa × scale` for a power-of-ten scale, rounded once: the prefix moves the decimal
+ * exponent and the text is read as one decimal number, so `10f` is exactly the double
+ * nearest 1e-14 (multiplying, 10 × 1e-15 = 1.0000000000000002e-14, rounds twice).
+ */
+function scaled(mantissa: string, scale: number): number {
+	if (scale === 1) return Number(mantissa);
+	const [coefficient, exponent = '0'] = mantissa.split(/e/i);
+	return Number(`${coefficient}e${Number(exponent) + Math.round(Math.log10(scale))}`);
 }
 
 /** Parse a voltage in volts (`-5 V`, `−5V`, `612m`, `0.6`). @throws Error with an explanatory message. */

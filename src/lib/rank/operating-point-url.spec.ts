@@ -111,8 +111,9 @@ describe('operating point ↔ query string', () => {
 		expect(compactNumber(1e-3, 'current')).toBe('1m');
 		expect(compactNumber(1e10, 'resistance')).toBe('10G');
 		expect(compactNumber(-5, 'voltage')).toBe('-5');
-		// 3.3 × 1e-12 is not the double nearest 3.3e-12, so the exponent form is the exact one.
-		expect(compactNumber(3.3e-12, 'capacitance')).toBe('3.3e-12');
+		// The parser reads "3.3p" as the double nearest 3.3e-12, so the prefixed form is exact.
+		expect(compactNumber(3.3e-12, 'capacitance')).toBe('3.3p');
+		expect(compactNumber(1e-14, 'current')).toBe('10f');
 		expect(compactNumber(2e-12, 'capacitance')).toBe('2p');
 		const awkward = 0.1 + 0.2;
 		expect(parseQuantity(compactNumber(awkward, 'voltage'), 'voltage')).toBe(awkward);

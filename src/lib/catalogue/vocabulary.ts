@@ -17,6 +17,10 @@ export const KIND_LABEL: Record<JunctionKind, string> = {
 	'jfet-gate': 'JFET gate junction',
 	led: 'LED'
 };
+/** A kind as people read it; a code the list does not know is shown as it is. */
+export function kindLabel(kind: string): string {
+	return KIND_LABEL[kind as JunctionKind] ?? kind;
+}
 export const LIFECYCLE_LABEL: Record<Lifecycle, string> = {
 	'in-use': 'In use',
 	'not-for-new': 'Not for new designs',

@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { JUNCTION_KINDS, LIFECYCLES, MATERIALS } from '$lib/catalogue/vocabulary';
+import { JUNCTION_KINDS, KIND_LABEL, LIFECYCLES, LIFECYCLE_LABEL, MATERIALS, MATERIAL_LABEL } from '$lib/catalogue/vocabulary';
+import { optionalQuantity, quantity } from './quantity';
 
 export { fieldErrors } from './people';
 
@@ -30,13 +31,22 @@ export const storedModel = z
 
 const tag = z.string().trim().min(1).max(40, 'A tag is at most 40 characters.');
 
+/** Ratings as numbers in V, A and °C, or as typed ("40 V", "200 mA", "150 °C"). */
 const ratings = z
 	.object({
-		reverseV: finitePositive('Rated reverse voltage').max(10_000).optional(),
-		forwardA: finitePositive('Rated forward current').max(1000).optional(),
-		junctionC: z.number().finite().min(-60).max(300, 'Rated junction temperature is in °C (−60 to 300).').optional()
+		reverseV: optionalQuantity('voltage', 'Rated reverse voltage', (n) =>
+			n.positive('The rated reverse voltage must be above zero.').max(10_000, 'The rated reverse voltage must be at most 10 kV.')
+		),
+		forwardA: optionalQuantity('current', 'Rated forward current', (n) =>
+			n.positive('The rated forward current must be above zero.').max(1000, 'The rated forward current must be at most 1 kA.')
+		),
+		junctionC: optionalQuantity('temperature', 'Rated junction temperature', (n) =>
+			n.min(-60, 'The rated junction temperature must be −60 °C or more.').max(300, 'The rated junction temperature must be 300 °C or less.')
+		)
 	})
 	.strict();
+
+const listed = (labels: Record<string, string>) => Object.values(labels).join(', ');
 
 /** The fields a part is created with, shared by the new-part form and POST /api/v1/junctions. */
 export const partInput = z.object({
@@ -46,17 +56,17 @@ export const partInput = z.object({
 		.min(1, 'Give the part number as the maker prints it.')
 		.max(60, 'A part number is at most 60 characters.')
 		.regex(/^[\w.+/#-]+(?: [\w.+/#-]+)*$/, 'Letters, digits and . + / # - only.'),
-	maker: z.string().trim().min(1, 'Name the maker.').max(80),
-	kind: z.enum(JUNCTION_KINDS, { message: `Kind is one of ${JUNCTION_KINDS.join(', ')}.` }),
-	package: z.string().trim().max(40).default(''),
-	material: z.enum(MATERIALS, { message: `Material is one of ${MATERIALS.join(', ')}.` }).optional(),
+	maker: z.string().trim().min(1, 'Name the maker.').max(80, 'The maker is at most 80 characters.'),
+	kind: z.enum(JUNCTION_KINDS, { message: `Choose the kind: ${listed(KIND_LABEL)}.` }),
+	package: z.string().trim().max(40, 'The package is at most 40 characters.').default(''),
+	material: z.enum(MATERIALS, { message: `Choose the material: ${listed(MATERIAL_LABEL)}, or leave it to the kind.` }).optional(),
 	admitsLight: z.boolean().optional(),
-	anodePins: z.string().trim().max(20).default(''),
-	cathodePins: z.string().trim().max(20).default(''),
+	anodePins: z.string().trim().max(20, 'The anode pins are at most 20 characters.').default(''),
+	cathodePins: z.string().trim().max(20, 'The cathode pins are at most 20 characters.').default(''),
 	ratings: ratings.default({}),
-	tags: z.array(tag).max(20).default([]),
-	notes: z.string().max(4000).default(''),
-	lifecycle: z.enum(LIFECYCLES).default('in-use'),
+	tags: z.array(tag).max(20, 'At most 20 tags.').default([]),
+	notes: z.string().max(4000, 'Keep the notes under 4000 characters.').default(''),
+	lifecycle: z.enum(LIFECYCLES, { message: `Choose the lifecycle: ${listed(LIFECYCLE_LABEL)}.` }).default('in-use'),
 	model: storedModel.optional(),
 	modelSource: z.string().trim().max(200).optional()
 });
@@ -73,7 +83,6 @@ export type PartPatch = z.infer<typeof partPatch>;
 /** Form fields arrive as strings; this turns them into the partInput shape first. */
 export function partFromForm(form: FormData) {
 	const s = (k: string) => String(form.get(k) ?? '').trim();
-	const num = (k: string) => (s(k) === '' ? undefined : Number(s(k).replace(/\s/g, '')));
 	const values = {
 		partNumber: s('partNumber'),
 		maker: s('maker'),
@@ -99,7 +108,8 @@ export function partFromForm(form: FormData) {
 		admitsLight: values.admitsLight,
 		anodePins: values.anodePins,
 		cathodePins: values.cathodePins,
-		ratings: { reverseV: num('reverseV'), forwardA: num('forwardA'), junctionC: num('junctionC') },
+		// As typed: the schema reads "200 mA" with the engine's parser, as the form did while typing.
+		ratings: { reverseV: values.reverseV, forwardA: values.forwardA, junctionC: values.junctionC },
 		tags: values.tags
 			.split(',')
 			.map((t) => t.trim())
@@ -131,12 +141,12 @@ export const sampleInput = z.object({
 	dateCode: z.string().trim().max(20).default('')
 });
 
-/** Measurement temperature as typed: °C on a bench, −70 … +200. */
-export const temperatureC = z.coerce
-	.number({ message: 'Temperature must be a number in °C.' })
-	.finite('Temperature must be a finite number in °C.')
-	.min(-70, 'Temperatures are in °C; below −70 °C is outside any bench here.')
-	.max(200, 'Temperatures are in °C; above 200 °C looks like kelvin (25 °C = 298.15 K).');
+/** Measurement temperature as typed ("25", "85 °C", "298.15 K") or a number in °C; −70 … +200 °C. */
+export const temperatureC = quantity('temperature', 'Temperature', (n) =>
+	n
+		.min(-70, 'Temperatures are in °C; below −70 °C is outside any bench here.')
+		.max(200, 'Temperatures are in °C; above 200 °C looks like kelvin (25 °C = 298.15 K).')
+);
 
 export const pointsInput = z.object({
 	sample: sampleInput.shape.unit,
@@ -156,8 +166,9 @@ export const fitInput = z.object({
 	points: pointsInput.shape.points
 });
 
+/** A bias window left out of a fit, as numbers in volts or as typed ("0.65", "650 mV"). */
 export const excludeRange = z
-	.object({ fromV: z.coerce.number().finite(), toV: z.coerce.number().finite() })
+	.object({ fromV: quantity('voltage', 'Leave out from'), toV: quantity('voltage', 'Leave out to') })
 	.refine((r) => r.fromV < r.toV, { message: 'The excluded range must start below where it ends.', path: ['toV'] });
 
 export const catalogueQuery = z.object({

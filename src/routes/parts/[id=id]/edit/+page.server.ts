@@ -4,6 +4,7 @@ import { DomainError } from '$lib/server/api';
 import * as catalogue from '$lib/server/catalogue';
 import { cardTextFrom } from '$lib/catalogue/model-card';
 import { fieldErrors, partFormErrors, partFromForm, partInput, sampleInput } from '$lib/schemas/catalogue';
+import { quantityText } from '$lib/quantity';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -21,9 +22,9 @@ export const load: PageServerLoad = async (event) => {
 			admitsLight: p.admitsLight,
 			anodePins: p.anodePins,
 			cathodePins: p.cathodePins,
-			reverseV: p.ratedReverseV?.toString() ?? '',
-			forwardA: p.ratedForwardA?.toString() ?? '',
-			junctionC: p.ratedJunctionC?.toString() ?? '',
+			reverseV: quantityText(p.ratedReverseV, 'voltage'),
+			forwardA: quantityText(p.ratedForwardA, 'current'),
+			junctionC: quantityText(p.ratedJunctionC, 'temperature'),
 			tags: p.tags.join(', '),
 			notes: p.notes,
 			lifecycle: p.lifecycle

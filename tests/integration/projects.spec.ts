@@ -58,7 +58,7 @@ describe('creating a project', () => {
 	test('the form reads SI prefixes and units, and says which field it could not read', async () => {
 		const bad = await browse('/projects/new', { as: 'designer', form: { name: 'Form test', bias: '-5 volts please', tempLo: '85 °C' } });
 		expect(bad.status).toBe(400);
-		expect(bad.text).toMatch(/Expected a voltage/);
+		expect(bad.text).toContain('Not read as a voltage: write it like −5 V or 612 mV.');
 		const name = unique('Electrometer input');
 		const ok = await browse('/projects/new', { as: 'designer', form: { name, bias: '−5 V', tempLo: '0 °C', tempHi: '85C', leakageTarget: '10p', clamp: '1m', maxDrop: '650m' } });
 		expect(ok.status).toBe(303);

@@ -1,7 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import { createProjectSchema, emailList, requirementFromForm, reviewSchema, type RequirementForm } from './projects';
 
-const blank: RequirementForm = { bias: '', tempLo: '', tempHi: '', clamp: '', maxDrop: '', leakageTarget: '', sourceR: '' };
+const blank: RequirementForm = { bias: '', tempLo: '', tempHi: '', clamp: '', maxDrop: '', leakageTarget: '', allowedError: '', sourceR: '' };
 
 describe('requirement typed on the form', () => {
 	test('SI prefixes, units and typographic minus are read into base units', () => {
@@ -22,9 +22,23 @@ describe('requirement typed on the form', () => {
 	test('each unreadable field is named, with what was expected', () => {
 		const r = requirementFromForm({ ...blank, bias: 'five volts', tempLo: '', leakageTarget: '10 pV' });
 		expect(r.requirement).toBeUndefined();
-		expect(r.errors.bias).toMatch(/Expected a voltage/);
+		expect(r.errors.bias).toBe('Not read as a voltage: write it like −5 V or 612 mV.');
 		expect(r.errors.tempLo).toMatch(/temperature/);
-		expect(r.errors.leakageTarget).toMatch(/Expected a current/);
+		expect(r.errors.leakageTarget).toBe('Not read as a current: write it like 200 mA or 10p.');
+	});
+	test('messages name the field as the form labels it, never the API key', () => {
+		const r = requirementFromForm({ ...blank, bias: '-5', tempHi: '25', clamp: '-1 mA', leakageTarget: '0' });
+		expect(r.errors).toEqual({ clamp: 'The clamp current must be above zero.', leakageTarget: 'The leakage target must be above zero.' });
+		for (const m of Object.values(r.errors)) expect(m).not.toMatch(/[a-z][A-Z]/); // no camelCase keys
+	});
+	test('a typed 10f is stored as the double nearest 1e-14, without rounding noise', () => {
+		expect(requirementFromForm({ ...blank, bias: '-1', tempHi: '25', leakageTarget: '10f' }).requirement?.leakageTargetA).toBe(1e-14);
+	});
+	test('an allowed error goes with a source resistance, and instead of a leakage target', () => {
+		const ok = requirementFromForm({ ...blank, bias: '-5', tempHi: '85', allowedError: '1 mV', sourceR: '1 G' });
+		expect(ok.requirement).toEqual({ biasV: -5, temperatureC: 85, allowedErrorV: 1e-3, sourceResistanceOhm: 1e9 });
+		expect(requirementFromForm({ ...blank, bias: '-5', tempHi: '85', allowedError: '1 mV' }).errors.sourceR).toMatch(/source resistance/);
+		expect(requirementFromForm({ ...blank, bias: '-5', tempHi: '85', allowedError: '1 mV', sourceR: '1G', leakageTarget: '1p' }).errors.leakageTarget).toMatch(/not both/);
 	});
 	test('a reversed range and a drop limit without a clamp current are refused on their fields', () => {
 		expect(requirementFromForm({ ...blank, bias: '-5', tempLo: '85', tempHi: '0' }).errors.tempLo).toMatch(/cold end/);

@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { parseCurrent, parseResistance, parseTemperature, parseVoltage } from '$lib/junction/units';
+import { quantityText } from '$lib/quantity';
+import { optionalQuantity, quantity } from './quantity';
 import { REVIEW_ACTIONS } from '$lib/review-transitions';
 import { email } from './people';
 import { MAX_ID } from '../../params/id';
@@ -7,27 +8,36 @@ import { MAX_ID } from '../../params/id';
 const finite = (what: string) => z.number({ message: `${what} must be a number.` }).refine(Number.isFinite, `${what} must be finite.`);
 const celsius = (what: string) => finite(what).min(-273.15, `${what} is below absolute zero.`).max(500, `${what} is above 500 °C.`);
 
-/** The requirement as stored and as the API takes it: volts, amperes, ohms, °C. */
+/**
+ * The requirement as stored and as the API takes it: volts, amperes, ohms, °C. The leakage
+ * limit is a leakage target, or an allowed error voltage across the source resistance (the
+ * ranking's two ways of saying it). Messages name each value as the project screens label it.
+ */
 export const requirementSchema = z
 	.object({
-		biasV: finite('biasV').min(-10_000, 'biasV is beyond −10 kV.').max(100, 'biasV is beyond 100 V forward.'),
-		temperatureC: celsius('temperatureC').optional(),
-		temperatureRangeC: z.tuple([celsius('temperatureRangeC[0]'), celsius('temperatureRangeC[1]')]).optional(),
-		clampCurrentA: finite('clampCurrentA').positive('clampCurrentA must be above zero.').max(1000).optional(),
-		maxForwardDropV: finite('maxForwardDropV').positive('maxForwardDropV must be above zero.').max(100).optional(),
-		leakageTargetA: finite('leakageTargetA').positive('leakageTargetA must be above zero.').max(1).optional(),
-		sourceResistanceOhm: finite('sourceResistanceOhm').min(0, 'sourceResistanceOhm cannot be negative.').optional()
+		biasV: finite('The bias').min(-10_000, 'The bias must be within 10 kV reverse.').max(100, 'The bias must be at most 100 V forward.'),
+		temperatureC: celsius('The temperature').optional(),
+		temperatureRangeC: z.tuple([celsius('The cold end'), celsius('The hot end')]).optional(),
+		clampCurrentA: finite('The clamp current').positive('The clamp current must be above zero.').max(1000, 'The clamp current must be at most 1 kA.').optional(),
+		maxForwardDropV: finite('The forward-drop limit').positive('The forward-drop limit must be above zero.').max(100, 'The forward-drop limit must be at most 100 V.').optional(),
+		leakageTargetA: finite('The leakage target').positive('The leakage target must be above zero.').max(1, 'The leakage target must be at most 1 A.').optional(),
+		allowedErrorV: finite('The allowed error').positive('The allowed error must be above zero.').max(1000, 'The allowed error must be at most 1 kV.').optional(),
+		sourceResistanceOhm: finite('The source resistance').min(0, 'The source resistance cannot be negative.').optional()
 	})
 	.strict()
 	.superRefine((r, ctx) => {
 		if (r.temperatureC === undefined && r.temperatureRangeC === undefined)
-			ctx.addIssue({ code: 'custom', path: ['temperatureC'], message: 'Give temperatureC or temperatureRangeC [lo, hi].' });
+			ctx.addIssue({ code: 'custom', path: ['temperatureC'], message: 'Give at least one temperature (temperatureC, or temperatureRangeC as [cold, hot]).' });
 		if (r.temperatureC !== undefined && r.temperatureRangeC !== undefined)
-			ctx.addIssue({ code: 'custom', path: ['temperatureRangeC'], message: 'Give temperatureC or temperatureRangeC, not both.' });
+			ctx.addIssue({ code: 'custom', path: ['temperatureRangeC'], message: 'Give one temperature or a range, not both.' });
 		if (r.temperatureRangeC && r.temperatureRangeC[0] > r.temperatureRangeC[1])
 			ctx.addIssue({ code: 'custom', path: ['temperatureRangeC'], message: 'The cold end must not be above the hot end.' });
 		if (r.maxForwardDropV !== undefined && r.clampCurrentA === undefined)
 			ctx.addIssue({ code: 'custom', path: ['clampCurrentA'], message: 'A forward-drop limit needs the clamp current it applies at.' });
+		if (r.allowedErrorV !== undefined && r.leakageTargetA !== undefined)
+			ctx.addIssue({ code: 'custom', path: ['leakageTargetA'], message: 'Give a leakage target or an allowed error, not both.' });
+		if (r.allowedErrorV !== undefined && !(r.sourceResistanceOhm! > 0))
+			ctx.addIssue({ code: 'custom', path: ['sourceResistanceOhm'], message: 'An allowed error needs the source resistance it appears across.' });
 	});
 export type RequirementInput = z.infer<typeof requirementSchema>;
 
@@ -66,10 +76,32 @@ export const reviewSchema = z
 			ctx.addIssue({ code: 'custom', path: ['comment'], message: 'Say what should change, or why it is declined.' });
 	});
 
-/** Form fields of the requirement, as typed (SI prefixes and units welcome). */
-export const REQUIREMENT_FIELDS = ['bias', 'tempLo', 'tempHi', 'clamp', 'maxDrop', 'leakageTarget', 'sourceR'] as const;
-export type RequirementField = (typeof REQUIREMENT_FIELDS)[number];
+/** The requirement form's fields, as typed (SI prefixes and units welcome), read by the engine's parser. */
+export const requirementFormSchema = z.object({
+	bias: quantity('voltage', 'Bias across the junction'),
+	tempLo: optionalQuantity('temperature', 'Temperature, cold end'),
+	tempHi: optionalQuantity('temperature', 'Temperature, hot end'),
+	clamp: optionalQuantity('current', 'Clamp current'),
+	maxDrop: optionalQuantity('voltage', 'Forward-drop limit'),
+	leakageTarget: optionalQuantity('current', 'Leakage target'),
+	allowedError: optionalQuantity('voltage', 'Allowed error'),
+	sourceR: optionalQuantity('resistance', 'Source resistance')
+});
+export type RequirementField = keyof z.input<typeof requirementFormSchema>;
+export const REQUIREMENT_FIELDS = Object.keys(requirementFormSchema.shape) as RequirementField[];
 export type RequirementForm = Record<RequirementField, string>;
+
+/** Where each stored value is typed on the form. */
+const FIELD_OF: Record<keyof RequirementInput, RequirementField> = {
+	biasV: 'bias',
+	temperatureC: 'tempLo',
+	temperatureRangeC: 'tempLo',
+	clampCurrentA: 'clamp',
+	maxForwardDropV: 'maxDrop',
+	leakageTargetA: 'leakageTarget',
+	allowedErrorV: 'allowedError',
+	sourceResistanceOhm: 'sourceR'
+};
 
 /**
  * Reads the typed requirement (`-5 V`, `85 °C`, `10p`) into API units. One temperature
@@ -77,50 +109,45 @@ export type RequirementForm = Record<RequirementField, string>;
  */
 export function requirementFromForm(v: RequirementForm): { requirement?: RequirementInput; errors: Record<string, string> } {
 	const errors: Record<string, string> = {};
-	const out: Record<string, unknown> = {};
-	const read = (field: RequirementField, parse: (s: string) => number, key: string, required = false) => {
-		const text = (v[field] ?? '').trim();
-		if (!text) {
-			if (required) errors[field] = 'Required.';
-			return undefined;
-		}
-		try {
-			const value = parse(text);
-			out[key] = value;
-			return value;
-		} catch (e) {
-			errors[field] = e instanceof Error ? e.message.replace(/^expected/, 'Expected') : 'Not understood.';
-			return undefined;
-		}
+	if (!(v.tempLo ?? '').trim() && !(v.tempHi ?? '').trim()) errors.tempLo = 'Give at least one temperature.';
+	const typed = requirementFormSchema.safeParse(v);
+	if (!typed.success) for (const i of typed.error.issues) errors[String(i.path[0] ?? 'form')] ??= i.message;
+	if (!typed.success || Object.keys(errors).length) return { errors };
+	const t = typed.data;
+	const out = {
+		biasV: t.bias,
+		...(t.tempLo !== undefined && t.tempHi !== undefined ? { temperatureRangeC: [t.tempLo, t.tempHi] } : { temperatureC: t.tempLo ?? t.tempHi }),
+		clampCurrentA: t.clamp,
+		maxForwardDropV: t.maxDrop,
+		leakageTargetA: t.leakageTarget,
+		allowedErrorV: t.allowedError,
+		sourceResistanceOhm: t.sourceR
 	};
-	read('bias', parseVoltage, 'biasV', true);
-	const lo = read('tempLo', (s) => parseTemperature(s).celsius, '_lo');
-	const hi = read('tempHi', (s) => parseTemperature(s).celsius, '_hi');
-	delete out._lo;
-	delete out._hi;
-	if (lo !== undefined && hi !== undefined) out.temperatureRangeC = [lo, hi];
-	else if (lo !== undefined || hi !== undefined) out.temperatureC = lo ?? hi;
-	else if (!errors.tempLo && !errors.tempHi) errors.tempLo = 'Give at least one temperature.';
-	read('clamp', parseCurrent, 'clampCurrentA');
-	read('maxDrop', parseVoltage, 'maxForwardDropV');
-	read('leakageTarget', parseCurrent, 'leakageTargetA');
-	read('sourceR', parseResistance, 'sourceResistanceOhm');
-	if (Object.keys(errors).length) return { errors };
-	const parsed = requirementSchema.safeParse(out);
+	const parsed = requirementSchema.safeParse(Object.fromEntries(Object.entries(out).filter(([, x]) => x !== undefined)));
 	if (!parsed.success) {
-		const fieldOf: Record<string, RequirementField> = {
-			biasV: 'bias',
-			temperatureC: 'tempLo',
-			temperatureRangeC: 'tempLo',
-			clampCurrentA: 'clamp',
-			maxForwardDropV: 'maxDrop',
-			leakageTargetA: 'leakageTarget',
-			sourceResistanceOhm: 'sourceR'
-		};
-		for (const i of parsed.error.issues) errors[fieldOf[String(i.path[0])] ?? 'form'] ??= i.message;
+		for (const i of parsed.error.issues) {
+			const key = String(i.path[0]) as keyof RequirementInput;
+			const field = key === 'temperatureRangeC' && i.path[1] === 1 ? 'tempHi' : (FIELD_OF[key] ?? 'form');
+			errors[field] ??= i.message;
+		}
 		return { errors };
 	}
 	return { requirement: parsed.data, errors };
+}
+
+/** The form's fields for a stored requirement (or the ranking's operating point), written exactly. */
+export function requirementToForm(r: Partial<RequirementInput>): RequirementForm {
+	return {
+		bias: quantityText(r.biasV, 'voltage'),
+		// One temperature is the hot end: that is where leakage is judged.
+		tempLo: quantityText(r.temperatureRangeC?.[0], 'temperature'),
+		tempHi: quantityText(r.temperatureRangeC?.[1] ?? r.temperatureC, 'temperature'),
+		clamp: quantityText(r.clampCurrentA, 'current'),
+		maxDrop: quantityText(r.maxForwardDropV, 'voltage'),
+		leakageTarget: quantityText(r.leakageTargetA, 'current'),
+		allowedError: quantityText(r.allowedErrorV, 'voltage'),
+		sourceR: quantityText(r.sourceResistanceOhm, 'resistance')
+	};
 }
 
 /** Splits "a@x.test, b@y.test" into addresses; bad ones are reported. */

@@ -21,6 +21,7 @@ export function toOperatingPoint(r: Requirement): RankOperatingPoint {
 		...(r.clampCurrentA !== undefined ? { clampCurrentA: r.clampCurrentA } : {}),
 		...(r.maxForwardDropV !== undefined ? { maxForwardDropV: r.maxForwardDropV } : {}),
 		...(r.leakageTargetA !== undefined ? { leakageTargetA: r.leakageTargetA } : {}),
+		...(r.allowedErrorV !== undefined && r.sourceResistanceOhm ? { allowedErrorV: r.allowedErrorV } : {}),
 		...(r.sourceResistanceOhm ? { sourceResistanceOhm: r.sourceResistanceOhm } : {}),
 		includeOverRating: true
 	};

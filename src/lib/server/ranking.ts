@@ -19,7 +19,8 @@ import type { RankFlag, RankItem, RankOperatingPoint, RankResponse } from '$lib/
 import { modelCache, type CacheSnapshot, type CachedPart, type ModelCache } from './model-cache';
 
 /** A rank item for one part, with the model version the numbers came from. */
-export type Prediction = Omit<RankItem, 'rank'> & { modelVersion: number };
+export type { Prediction } from '$lib/projects/shortlist';
+import type { Prediction } from '$lib/projects/shortlist';
 
 /** The engine's operating point (the source resistance is not a series element here). */
 export function engineOperatingPoint(op: RankOperatingPoint): OperatingPoint {
@@ -40,11 +41,8 @@ export function engineOperatingPoint(op: RankOperatingPoint): OperatingPoint {
 }
 
 /** Worst leakage the operating point allows [A]: given directly, or error voltage ÷ source resistance. */
-export function leakageBudget(op: RankOperatingPoint): number | null {
-	if (op.leakageTargetA !== undefined) return op.leakageTargetA;
-	if (op.allowedErrorV !== undefined && op.sourceResistanceOhm !== undefined) return op.allowedErrorV / op.sourceResistanceOhm;
-	return null;
-}
+export { leakageBudget } from '$lib/projects/shortlist';
+import { leakageBudget } from '$lib/projects/shortlist';
 
 function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit<RankItem, 'rank'> {
 	return {

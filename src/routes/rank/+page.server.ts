@@ -20,7 +20,7 @@ export const load: PageServerLoad = async (event) => {
 		listPresets(user.id)
 	]);
 	const showAll = event.url.searchParams.get(SHOW_ALL_PARAM) === 'all';
-	return { fields, errors, result, presets, showAll, canShortlist: can(user, 'shortlist:edit') };
+	return { fields, errors, result, presets, showAll, canShortlist: can(user, 'shortlist:edit'), canCreateProject: can(user, 'project:create') };
 };
 
 export const actions: Actions = {

@@ -3,13 +3,27 @@ import { requirePermission } from '$lib/server/guards';
 import { DomainError } from '$lib/server/api';
 import * as projects from '$lib/server/projects';
 import * as people from '$lib/server/people';
-import { createProjectSchema, emailList, REQUIREMENT_FIELDS, requirementFromForm, type RequirementForm } from '$lib/schemas/projects';
+import { createProjectSchema, emailList, REQUIREMENT_FIELDS, requirementFromForm, requirementToForm, type RequirementForm } from '$lib/schemas/projects';
+import { fieldsFromQuery, parseFields } from '$lib/rank/operating-point-url';
 import type { Actions, PageServerLoad } from './$types';
+
+/**
+ * The requirement fields a ranking's address fills in (`/projects/new?v=-5&thi=85…`, the
+ * ranking screen's own query). Its filters (kinds, packages, lifecycles, text) are not part
+ * of a requirement and are left behind.
+ */
+function fromRanking(query: URLSearchParams): RequirementForm | null {
+	if (!query.has('v') && !query.has('tlo') && !query.has('thi')) return null;
+	const f = fieldsFromQuery(query);
+	const { op } = parseFields(f);
+	if (op) return requirementToForm(op);
+	return { bias: f.bias, tempLo: f.tLo, tempHi: f.tHi, clamp: f.clamp, maxDrop: f.maxDrop, leakageTarget: f.leakage, allowedError: f.allowedError, sourceR: f.source };
+}
 
 export const load: PageServerLoad = async (event) => {
 	requirePermission(event, 'project:create');
 	const leads = await people.listWithRole('lead');
-	return { leads: leads.map((l) => ({ email: l.email, name: l.name })) };
+	return { leads: leads.map((l) => ({ email: l.email, name: l.name })), fromRanking: fromRanking(event.url.searchParams) };
 };
 
 export const actions: Actions = {

@@ -14,7 +14,7 @@ import { users } from './auth';
 import { parts } from './catalogue';
 import { timestamps } from './columns';
 
-/** A saved operating point (API units: volts, amperes, °C). */
+/** A saved operating point (API units: volts, amperes, ohms, °C). */
 export type Requirement = {
 	biasV: number;
 	temperatureC?: number;
@@ -22,6 +22,8 @@ export type Requirement = {
 	clampCurrentA?: number;
 	maxForwardDropV?: number;
 	leakageTargetA?: number;
+	/** Allowed error voltage across the source resistance, instead of a leakage target. */
+	allowedErrorV?: number;
 	sourceResistanceOhm?: number;
 };
 

@@ -58,12 +58,12 @@ test('a shortlist goes from designer to lead, is sent back, resubmitted and appr
 		await page.getByLabel('Part number').fill(pn);
 		await page.getByLabel(/^Note/).fill(note);
 		await page.getByRole('button', { name: 'Add to shortlist' }).click();
-		await expect(page.getByRole('status').filter({ hasText: `${pn} added.` })).toBeVisible();
+		await expect(page.getByRole('status').filter({ hasText: `${pn} (Quillmark Semi) added to the shortlist.` })).toBeVisible();
 	}
 	await waitForVerdicts(page, 2);
 	await expect(page.getByTestId('entry').filter({ hasText: quiet })).toHaveAttribute('data-verdict', 'pass');
 	await expect(page.getByTestId('entry').filter({ hasText: leaky })).toHaveAttribute('data-verdict', 'fail');
-	await expect(page.getByRole('link', { name: "Open this project's ranking →" })).toHaveAttribute('href', '/rank?v=-5&tlo=0&thi=85&ic=0.001&vf=0.8&ileak=1e-9');
+	await expect(page.getByRole('link', { name: "Open this project's ranking →" })).toHaveAttribute('href', '/rank?v=-5&tlo=0&thi=85&ic=1m&vf=0.8&ileak=1n');
 	await screenshot(page, 'project-draft');
 	// The ranking screen opens on this requirement.
 	await page.getByRole('link', { name: "Open this project's ranking →" }).click();

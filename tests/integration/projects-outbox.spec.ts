@@ -64,9 +64,9 @@ test('a review mail waits out a mail-server outage and is then delivered intact'
 		links: string[];
 	}[];
 	expect(list).toHaveLength(1);
-	expect(list[0].subject).toBe('Shortlist for “Thermocouple clamp” sent back for changes by Marisol Achterberg');
+	expect(list[0].subject).toBe('Shortlist for “Thermocouple clamp”: Marisol Achterberg asks for changes');
 	expect(list[0].text).toContain('Add a part with a lower forward drop.');
-	expect(list[0].text).toContain('Requirement: bias −5 V, 0 °C to 85 °C, leakage target 1 nA');
+	expect(list[0].text).toContain('The requirement: bias −5 V, 0 °C to 85 °C, leakage target 1 nA');
 	expect(list[0].links).toEqual(['http://127.0.0.1:5203/projects/4242']);
 	expect(list[0].html).toContain('<a href="http://127.0.0.1:5203/projects/4242">');
 	// Delivered once: a further run finds nothing due.

@@ -8,69 +8,25 @@ import { auditLog, parts, projectMembers, projects, reviewEvents, shortlistEntri
 import { DomainError } from './api';
 import { recordAudit } from './audit';
 import * as people from './people';
-import { personRefs, type PersonRef } from './people';
-import { predictEntries, type ModelRecord, type PartModels, type Prediction } from './project-predictions';
+import { personRefs } from './people';
+import { predictEntries, type ModelRecord, type PartModels } from './project-predictions';
+import { verdict, type Entry, type PersonRef, type Prediction, type Verdict } from '$lib/projects/shortlist';
 import { EDITABLE_STATES, isEditable, STATE_LABEL, isReviewState } from '$lib/review-transitions';
 import type { CreateProjectInput } from '$lib/schemas/projects';
+import { auditWords } from '$lib/audit-words';
 
-export type { Prediction };
+export type { Prediction, Entry, PersonRef, Verdict };
+export { verdict };
 
 export type Project = typeof projects.$inferSelect;
-export type { PersonRef };
-
-export type Verdict = {
-	/** pass / fail against the leakage target (worst case), or none when no target is set. */
-	leakage: { status: 'pass' | 'fail' | 'none'; worstA: number; targetA?: number; ratio?: number };
-	/** pass / fail against the drop limit (worst of cold and hot), or none. */
-	drop: { status: 'pass' | 'fail' | 'none'; worstV?: number; limitV?: number; marginV?: number };
-	overall: 'pass' | 'fail' | 'unknown';
-};
-
-export type Entry = {
-	id: number;
-	partId: number;
-	partNumber: string;
-	maker: string;
-	kind: string;
-	note: string;
-	addedBy: PersonRef | null;
-	addedAt: Date;
-	prediction: Prediction | null;
-	verdict: Verdict | null;
-};
-
-/** Compares one prediction with the requirement's limits. */
-export function verdict(p: Prediction, r: Requirement): Verdict {
-	const leakage: Verdict['leakage'] =
-		r.leakageTargetA !== undefined
-			? {
-					status: p.leakageA.worst <= r.leakageTargetA ? 'pass' : 'fail',
-					worstA: p.leakageA.worst,
-					targetA: r.leakageTargetA,
-					ratio: p.leakageA.worst / r.leakageTargetA
-				}
-			: { status: 'none', worstA: p.leakageA.worst };
-	let drop: Verdict['drop'] = { status: 'none' };
-	if (p.forwardDropV) {
-		const worstV = p.forwardDropV.worst ?? Math.max(p.forwardDropV.cold, p.forwardDropV.hot);
-		drop =
-			r.maxForwardDropV !== undefined
-				? { status: worstV <= r.maxForwardDropV ? 'pass' : 'fail', worstV, limitV: r.maxForwardDropV, marginV: r.maxForwardDropV - worstV }
-				: { status: 'none', worstV };
-	} else if (r.maxForwardDropV !== undefined) {
-		drop = { status: 'none', limitV: r.maxForwardDropV };
-	}
-	const statuses = [leakage.status, drop.status];
-	const overall = statuses.includes('fail') ? 'fail' : statuses.includes('pass') ? 'pass' : 'unknown';
-	return { leakage, drop, overall };
-}
-
 
 async function resolvePeople(input: CreateProjectInput, tx: DbOrTx) {
 	let lead: people.Person | null = null;
 	if (input.leadEmail) {
 		lead = await people.findByEmail(input.leadEmail, tx);
 		if (!lead) throw new DomainError(400, 'The lead is not known here.', [{ path: 'leadEmail', message: `No person with the address ${input.leadEmail}.` }]);
+		if (lead.deactivatedAt)
+			throw new DomainError(400, 'The named lead is deactivated.', [{ path: 'leadEmail', message: `${lead.name} is deactivated; choose another lead.` }]);
 		if (!lead.roles.includes('lead'))
 			throw new DomainError(400, 'The named lead does not hold the lead role.', [{ path: 'leadEmail', message: `${input.leadEmail} is not a lead.` }]);
 	}
@@ -237,7 +193,7 @@ export async function addEntry(projectId: number, input: { junctionId: number; n
 }
 
 /** Finds a part by its number (any case); several makers of one number must be told apart. */
-export async function partByNumber(text: string): Promise<number> {
+export async function partByNumber(text: string): Promise<{ id: number; partNumber: string; maker: string }> {
 	const q = text.trim();
 	const rows = await db
 		.select({ id: parts.id, partNumber: parts.partNumber, maker: parts.maker })
@@ -249,7 +205,7 @@ export async function partByNumber(text: string): Promise<number> {
 		const makers = rows.map((r) => `${r.maker} ${r.partNumber}`).join(', ');
 		throw new DomainError(422, `Several makers use that number: ${makers}.`, [{ path: 'partNumber', message: `Several makers use that number; write the maker first, e.g. “${rows[0].maker} ${rows[0].partNumber}”.` }]);
 	}
-	return rows[0].id;
+	return rows[0];
 }
 
 export async function removeEntry(projectId: number, partId: number, actorId: string) {
@@ -291,15 +247,6 @@ export type ActivityItem = {
 	kind: 'review' | 'change';
 };
 
-const AUDIT_WORDS: Record<string, (d: Record<string, unknown>) => string> = {
-	'project.created': () => 'created the project',
-	'shortlist.added': (d) => `added ${String(d.partNumber ?? 'a part')} to the shortlist${d.note ? ` (“${String(d.note)}”)` : ''}`,
-	'shortlist.removed': (d) => `removed ${String(d.partNumber ?? 'a part')} from the shortlist`,
-	'project.member-added': (d) => `added ${String(d.email ?? 'someone')} as a member`,
-	'project.member-removed': (d) => `removed ${String(d.name ?? d.email ?? 'someone')} from the project${d.wasLead ? ' (they were its lead; any lead now decides)' : ''}`,
-	'project.lead-changed': (d) => (d.to ? `named ${String(d.toName ?? d.to)} the lead` : 'let any lead decide')
-};
-
 /** Who did what, newest first: shortlist and membership changes, and every review step. */
 export async function activity(projectId: number): Promise<ActivityItem[]> {
 	const audits = await db
@@ -314,8 +261,7 @@ export async function activity(projectId: number): Promise<ActivityItem[]> {
 	const items: ActivityItem[] = [];
 	for (const a of audits) {
 		if (a.action.startsWith('review.')) continue; // told by the review events, with their comments
-		const words = AUDIT_WORDS[a.action];
-		items.push({ at: a.at, who: name(a.actorId), what: words ? words(a.detail) : a.action, kind: 'change' });
+		items.push({ at: a.at, who: name(a.actorId), what: auditWords(a), kind: 'change' });
 	}
 	for (const e of events) {
 		const to = isReviewState(e.toState) ? STATE_LABEL[e.toState].toLowerCase() : e.toState;

@@ -14,11 +14,12 @@ import { escapeHtml } from './people';
 import * as projectsDomain from './projects';
 import { engineModel, type ModelRecord } from './project-predictions';
 import { asciiText } from '$lib/junction';
-import { JUNCTION_KINDS, type JunctionKind } from '$lib/catalogue/vocabulary';
+import { JUNCTION_KINDS, kindLabel, type JunctionKind } from '$lib/catalogue/vocabulary';
 import type { SampleChoice } from '$lib/schemas/spice';
 import { spiceBlock, type SpiceBlock, type SpicePart } from './spice';
+import { leakageBudget, shortfalls } from '$lib/projects/shortlist';
 import type { Prediction, Verdict } from './projects';
-import { checkTransition, ACTION_DONE, STATE_LABEL, isReviewState, type ReviewAction, type ReviewState } from '$lib/review-transitions';
+import { checkTransition, isReviewState, type ReviewAction, type ReviewState } from '$lib/review-transitions';
 import type { ReviewResource } from '$lib/permissions';
 import { formatSI, formatTemperature } from '$lib/junction/units';
 
@@ -108,6 +109,12 @@ export async function transition(projectId: number, input: TransitionInput, acto
 	if (input.action === 'submit' && snapshot.entries.length === 0) {
 		throw new DomainError(409, 'Add at least one part to the shortlist before sending it for review.');
 	}
+	const misses = shortfalls(snapshot.entries);
+	if (input.action === 'approve' && misses.length && input.comment.trim() === '') {
+		const parts = misses.map((m) => m.partNumber).join(', ');
+		const message = `${misses.length} of ${snapshot.entries.length} parts miss the requirement (${parts}); approving them needs a note saying why.`;
+		throw new DomainError(422, message, [{ path: 'comment', message }]);
+	}
 	const from = project.state as ReviewState;
 	const to = check.to;
 	const submitter = input.action === 'submit' ? actor.id : submitterOf(evts);
@@ -145,7 +152,7 @@ export async function transition(projectId: number, input: TransitionInput, acto
 		for (const r of recipients) {
 			if (seen.has(r.email)) continue;
 			seen.add(r.email);
-			await enqueueMail(tx, composeMail({ to: r, actor, project, action: input.action, toState: to, comment: input.comment, snapshot, link }));
+			await enqueueMail(tx, composeMail({ to: r, actor, project, action: input.action, toState: to, comment: input.comment, snapshot, link, namedLead: project.leadId !== null }));
 		}
 		return { id: event.id, state: to, version: updated[0].version };
 	});
@@ -155,16 +162,48 @@ export function describeRequirement(r: Requirement): string {
 	const t = r.temperatureRangeC ? `${formatTemperature(r.temperatureRangeC[0])} to ${formatTemperature(r.temperatureRangeC[1])}` : formatTemperature(r.temperatureC ?? 25);
 	const bits = [`bias ${formatSI(r.biasV, 'V')}`, t];
 	if (r.leakageTargetA !== undefined) bits.push(`leakage target ${formatSI(r.leakageTargetA, 'A')}`);
+	if (r.allowedErrorV !== undefined && r.sourceResistanceOhm)
+		bits.push(`allowed error ${formatSI(r.allowedErrorV, 'V')} across ${formatSI(r.sourceResistanceOhm, 'Ω')} (leakage up to ${formatSI(r.allowedErrorV / r.sourceResistanceOhm, 'A')})`);
+	else if (r.sourceResistanceOhm) bits.push(`source resistance ${formatSI(r.sourceResistanceOhm, 'Ω')}`);
 	if (r.clampCurrentA !== undefined) bits.push(`clamp ${formatSI(r.clampCurrentA, 'A')}`);
 	if (r.maxForwardDropV !== undefined) bits.push(`drop limit ${formatSI(r.maxForwardDropV, 'V')}`);
 	return bits.join(', ');
 }
 
 function entryLine(e: SnapshotEntry): string {
-	if (!e.prediction || !e.verdict) return `${e.maker} ${e.partNumber}: no prediction (model missing)`;
+	const name = `${e.partNumber} (${e.maker})`;
+	if (!e.prediction || !e.verdict) return `${name}: no prediction, as no usable model was on record`;
 	const v = e.verdict;
-	const verdictWord = v.overall === 'pass' ? 'meets the requirement' : v.overall === 'fail' ? 'misses the requirement' : 'no limits to compare';
-	return `${e.maker} ${e.partNumber}: worst leakage ${formatSI(e.prediction.leakageA.worst, 'A')}${v.drop.worstV !== undefined ? `, worst drop ${formatSI(v.drop.worstV, 'V')}` : ''} — ${verdictWord}`;
+	const figures = `worst leakage ${formatSI(e.prediction.leakageA.worst, 'A')}${v.drop.worstV !== undefined ? `, worst drop ${formatSI(v.drop.worstV, 'V')}` : ''}`;
+	if (v.overall === 'fail') return `${name}: ${figures}; misses: ${shortfalls([e])[0]?.reasons.join('; ') ?? 'a limit'}`;
+	return `${name}: ${figures}${v.overall === 'pass' ? '; meets the requirement' : ''}`;
+}
+
+/** The mail's opening, as a colleague would write it, and its subject. */
+function opening(m: { actor: { name: string }; project: { name: string }; action: ReviewAction; namedLead: boolean }): { subject: string; lead: string } {
+	const p = `“${m.project.name}”`;
+	switch (m.action) {
+		case 'submit':
+			return {
+				subject: `Shortlist for ${p} awaits your decision`,
+				lead: `${m.actor.name} has finished the shortlist for ${p} and asks ${m.namedLead ? 'you' : 'a lead'} to decide on it: approve it, send it back for changes, or decline it.`
+			};
+		case 'approve':
+			return {
+				subject: `Shortlist for ${p} approved by ${m.actor.name}`,
+				lead: `${m.actor.name} has approved the shortlist for ${p}. The model library, the CSV and the printable review record are now on the project page.`
+			};
+		case 'request-changes':
+			return {
+				subject: `Shortlist for ${p}: ${m.actor.name} asks for changes`,
+				lead: `${m.actor.name} has looked at the shortlist for ${p} and sent it back: it needs changes before it can be decided. Edit the shortlist, then send it to the lead again.`
+			};
+		case 'reject':
+			return {
+				subject: `Shortlist for ${p} declined by ${m.actor.name}`,
+				lead: `${m.actor.name} has declined the shortlist for ${p}. The decision is final; a new project can start from the same requirement.`
+			};
+	}
 }
 
 export function composeMail(m: {
@@ -176,31 +215,28 @@ export function composeMail(m: {
 	comment: string;
 	snapshot: Snapshot;
 	link: string;
+	/** A submission to the one lead the project names (otherwise every lead is asked). */
+	namedLead?: boolean;
 }): Mail {
-	const subject =
-		m.action === 'submit'
-			? `Shortlist for “${m.project.name}” awaits your decision`
-			: `Shortlist for “${m.project.name}” ${ACTION_DONE[m.action]} by ${m.actor.name}`;
-	const lead =
-		m.action === 'submit'
-			? `${m.actor.name} has sent the shortlist of “${m.project.name}” for your decision.`
-			: `${m.actor.name} has ${ACTION_DONE[m.action]} the shortlist of “${m.project.name}”. It is now: ${STATE_LABEL[m.toState].toLowerCase()}.`;
+	const { subject, lead } = opening({ ...m, namedLead: m.namedLead ?? false });
+	const firstName = m.actor.name.split(' ')[0];
 	const lines = m.snapshot.entries.map(entryLine);
 	const text = [
 		`Hello ${m.to.name},`,
 		'',
 		lead,
-		m.comment ? `\nComment:\n${m.comment}\n` : '',
-		`Requirement: ${describeRequirement(m.snapshot.requirement)}`,
+		...(m.comment ? ['', `${firstName} wrote:`, ...m.comment.split('\n').map((l) => `> ${l}`)] : []),
 		'',
-		'Shortlist at this moment:',
+		`The requirement: ${describeRequirement(m.snapshot.requirement)}.`,
+		'',
+		`The shortlist as it stood (${lines.length} ${lines.length === 1 ? 'part' : 'parts'}):`,
 		...lines.map((l) => `  - ${l}`),
 		'',
 		`Open the project: ${m.link}`,
 		'',
 		'Predictions are model estimates from bench measurements of particular samples, not guarantees.'
 	].join('\n');
-	const html = `<p>Hello ${escapeHtml(m.to.name)},</p><p>${escapeHtml(lead)}</p>${m.comment ? `<blockquote>${escapeHtml(m.comment).replace(/\n/g, '<br>')}</blockquote>` : ''}<p>Requirement: ${escapeHtml(describeRequirement(m.snapshot.requirement))}</p><ul>${lines.map((l) => `<li>${escapeHtml(l)}</li>`).join('')}</ul><p><a href="${escapeHtml(m.link)}">Open the project</a></p><p><small>Predictions are model estimates from bench measurements of particular samples, not guarantees.</small></p>`;
+	const html = `<p>Hello ${escapeHtml(m.to.name)},</p><p>${escapeHtml(lead)}</p>${m.comment ? `<p>${escapeHtml(firstName)} wrote:</p><blockquote>${escapeHtml(m.comment).replace(/\n/g, '<br>')}</blockquote>` : ''}<p>The requirement: ${escapeHtml(describeRequirement(m.snapshot.requirement))}.</p><p>The shortlist as it stood:</p><ul>${lines.map((l) => `<li>${escapeHtml(l)}</li>`).join('')}</ul><p><a href="${escapeHtml(m.link)}">Open the project</a></p><p><small>Predictions are model estimates from bench measurements of particular samples, not guarantees.</small></p>`;
 	return { to: m.to.email, subject, text, html };
 }
 
@@ -303,24 +339,33 @@ export function spiceLibrary(project: projectsDomain.Project, event: ReviewEvent
 	return out.join('\n');
 }
 
-function csvCell(v: string | number | null | undefined): string {
-	if (v === null || v === undefined) return '';
-	const s = String(v);
-	return /[",\n\r]/.test(s) || /^[=+\-@]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+/**
+ * A number as a file should carry it: seven significant figures (as the model exports),
+ * written in the shortest form that reads back to them — 1e-14, not 1.0000000000000002e-14.
+ */
+export function csvNumber(v: number): string {
+	return Number.isFinite(v) ? String(Number(v.toPrecision(7))) : '';
 }
 
-/** The approved shortlist as CSV, SI base units in the headers. */
+function csvCell(v: string | number | null | undefined): string {
+	if (v === null || v === undefined) return '';
+	if (typeof v === 'number') return csvNumber(v);
+	return /[",\n\r]/.test(v) || /^[=+\-@]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
+}
+
+/** The approved shortlist as CSV, SI base units in the headers, kinds as people read them. */
 export function shortlistCsv(event: ReviewEvent): string {
+	const r = event.snapshot.requirement;
 	const head = [
 		'part_number', 'maker', 'kind', 'note', 'added_by', 'model_version',
 		'leakage_typical_A', 'leakage_worst_A', 'leakage_target_A', 'leakage_verdict',
 		'drop_hot_V', 'drop_cold_V', 'drop_limit_V', 'drop_verdict', 'flags'
 	];
 	const rows = event.snapshot.entries.map((e) => [
-		e.partNumber, e.maker, e.kind, e.note, e.addedBy, e.modelVersion,
-		e.prediction?.leakageA.typical, e.prediction?.leakageA.worst, event.snapshot.requirement.leakageTargetA, e.verdict?.leakage.status,
-		e.prediction?.forwardDropV?.hot, e.prediction?.forwardDropV?.cold, event.snapshot.requirement.maxForwardDropV, e.verdict?.drop.status,
+		e.partNumber, e.maker, kindLabel(e.kind), e.note, e.addedBy, e.modelVersion,
+		e.prediction?.leakageA.typical, e.prediction?.leakageA.worst, leakageBudget(r), e.verdict?.leakage.status,
+		e.prediction?.forwardDropV?.hot, e.prediction?.forwardDropV?.cold, r.maxForwardDropV, e.verdict?.drop.status,
 		e.prediction?.flags.join(' ')
 	]);
-	return [head, ...rows].map((r) => r.map(csvCell).join(',')).join('\r\n') + '\r\n';
+	return [head, ...rows].map((row) => row.map(csvCell).join(',')).join('\r\n') + '\r\n';
 }

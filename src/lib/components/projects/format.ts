@@ -1,10 +1,8 @@
-import { formatSI, formatTemperature } from '$lib/junction/units';
+import { formatTemperature } from '$lib/junction/units';
 import { FLAG_WORDS, type RankFlag } from '$lib/schemas/rank';
 
-/** Amps, volts, ohms with SI prefixes; a dash when absent. */
-export function si(v: number | null | undefined, unit: string, digits = 3): string {
-	return v === null || v === undefined || !Number.isFinite(v) ? '—' : formatSI(v, unit, { digits });
-}
+/** Amps, volts, ohms with SI prefixes; a dash when absent (the catalogue's one formatter). */
+export { si } from '$lib/catalogue/format';
 
 export function temperatures(r: { temperatureC?: number; temperatureRangeC?: [number, number] }): string {
 	if (r.temperatureRangeC) return `${formatTemperature(r.temperatureRangeC[0])} … ${formatTemperature(r.temperatureRangeC[1])}`;
@@ -15,9 +13,4 @@ export function temperatures(r: { temperatureC?: number; temperatureRangeC?: [nu
 export function flagWords(code: string): { short: string; long: string } {
 	const w = FLAG_WORDS[code as RankFlag];
 	return w ? { short: w.short, long: w.long } : { short: code, long: code };
-}
-
-export function when(d: Date | string): string {
-	const date = typeof d === 'string' ? new Date(d) : d;
-	return date.toISOString().slice(0, 16).replace('T', ' ') + ' UTC';
 }

@@ -10,23 +10,17 @@ import { projectPatchSchema } from '$lib/schemas/project-people';
 import { reviewSchema } from '$lib/schemas/projects';
 import { email } from '$lib/schemas/people';
 import { availableActions, isEditable } from '$lib/review-transitions';
-import { emptyFields, queryFromFields } from '$lib/rank/operating-point-url';
+import { queryFromOperatingPoint } from '$lib/rank/operating-point-url';
+import { toOperatingPoint } from '$lib/server/project-predictions';
+import { shortfalls } from '$lib/projects/shortlist';
 import type { RequestEvent } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
 
-/** The ranking screen's query for this requirement, written by the ranking's own URL module. */
+/** The ranking screen at this requirement, written by the ranking's own URL module (short, exact numbers). */
 function rankLink(r: projects.Project['requirement']): string {
-	const f = emptyFields();
-	f.bias = String(r.biasV);
-	if (r.temperatureRangeC) {
-		f.tLo = String(r.temperatureRangeC[0]);
-		f.tHi = String(r.temperatureRangeC[1]);
-	} else if (r.temperatureC !== undefined) f.tHi = String(r.temperatureC);
-	if (r.clampCurrentA !== undefined) f.clamp = String(r.clampCurrentA);
-	if (r.maxForwardDropV !== undefined) f.maxDrop = String(r.maxForwardDropV);
-	if (r.leakageTargetA !== undefined) f.leakage = String(r.leakageTargetA);
-	if (r.sourceResistanceOhm) f.source = String(r.sourceResistanceOhm);
-	return `/rank?${queryFromFields(f)}`;
+	const { includeOverRating: _all, ...op } = toOperatingPoint(r);
+	void _all;
+	return `/rank?${queryFromOperatingPoint(op)}`;
 }
 
 async function projectOr404(id: number) {
@@ -65,6 +59,7 @@ export const load: PageServerLoad = async (event) => {
 		canEdit: can(user, 'shortlist:edit') && isEditable(project.state),
 		canPeople,
 		leads,
+		shortfalls: shortfalls(entries),
 		rankHref: rankLink(project.requirement)
 	};
 };
@@ -102,9 +97,10 @@ export const actions: Actions = {
 		if (!values.partNumber) return fail(400, { form: 'add', values, error: 'Type a part number.', message: 'Type a part number.' });
 		if (values.note.length > 1000) return fail(400, { form: 'add', values, error: 'Keep the note under 1000 characters.', message: '' });
 		try {
-			const partId = await projects.partByNumber(values.partNumber);
-			await projects.addEntry(id(event), { junctionId: partId, note: values.note }, user.id);
-			return { form: 'add', done: `${values.partNumber} added.` };
+			const part = await projects.partByNumber(values.partNumber);
+			await projects.addEntry(id(event), { junctionId: part.id, note: values.note }, user.id);
+			// Told back as the catalogue writes it, not as it was typed.
+			return { form: 'add', done: `${part.partNumber} (${part.maker}) added to the shortlist.` };
 		} catch (e) {
 			return problem(e, 'add', values);
 		}

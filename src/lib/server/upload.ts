@@ -57,7 +57,7 @@ function parseTemperature(raw: string | null | undefined, required: boolean): nu
 function parseExclusion(from: unknown, to: unknown): [number, number] | null {
 	if ((from === null || from === undefined || from === '') && (to === null || to === undefined || to === '')) return null;
 	const r = excludeRange.safeParse({ fromV: from, toV: to });
-	if (!r.success) throw new DomainError(400, 'The excluded voltage range is not valid.', zodIssues(r.error));
+	if (!r.success) throw new DomainError(400, 'The window left out of the fit is not valid.', zodIssues(r.error));
 	return [r.data.fromV, r.data.toV];
 }
 

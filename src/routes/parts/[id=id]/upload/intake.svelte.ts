@@ -2,6 +2,7 @@
 // reader), its upload and fit state, and the server's answer.
 import { parseSweepCsv, SweepError, type ParsedSweep } from '$lib/junction';
 import type { DataIssue } from '$lib/junction';
+import { readQuantity } from '$lib/quantity';
 
 export type FitAnswer = {
 	id: number | null;
@@ -21,20 +22,38 @@ export type FitAnswer = {
 	stored: boolean;
 };
 
-export type Phase = 'ready' | 'uploading' | 'fitting' | 'fitted' | 'storing' | 'stored' | 'refused' | 'failed' | 'unreadable';
+/**
+ * reading: the browser is reading the file; ready: waiting for Fit (a temperature is
+ * missing, or something changed since the last fit); problem: the browser's own reading
+ * found what stops a fit; refused: the server refused it; failed: it never got an answer.
+ */
+export type Phase = 'reading' | 'ready' | 'uploading' | 'fitting' | 'fitted' | 'storing' | 'stored' | 'problem' | 'refused' | 'failed';
+
+/** What went wrong, in words: a sentence and, for files, the rows and columns it concerns. */
+export type Problem = { message: string; issues?: DataIssue[] };
+
+let made = 0;
 
 export class Intake {
 	file: File;
+	/** Unique on the page, for element ids (file names may hold spaces). */
+	readonly key = ++made;
+	/** Set once the file's text has been read (an empty file reads as ''). */
+	read = $state(false);
 	text = $state('');
 	sample = $state('');
 	temperature = $state('');
-	phase = $state<Phase>('ready');
+	phase = $state<Phase>('reading');
 	/** Upload progress 0…1 (bytes sent / total, from XMLHttpRequest). */
 	progress = $state(0);
 	answer = $state<FitAnswer | null>(null);
-	error = $state<{ status: number; message: string; issues?: DataIssue[] } | null>(null);
+	error = $state<Problem | null>(null);
 	excludeFrom = $state('');
 	excludeTo = $state('');
+	/** The temperature box was filled with 25 °C because neither the file nor its name says. */
+	assumedTemperature = $state(false);
+	/** Sample, temperature and window the shown fit was made with. */
+	fittedWith = $state<string | null>(null);
 
 	constructor(file: File, sample: string) {
 		this.file = file;
@@ -46,12 +65,26 @@ export class Intake {
 		return this.text.split(/\r\n|\r|\n/).slice(0, 6);
 	}
 
+	/** What a fit is made with now; when it differs from `fittedWith`, the fit on screen is out of date. */
+	get settings(): string {
+		return [this.sample.trim(), this.temperature.trim(), this.excludeFrom.trim(), this.excludeTo.trim()].join('|');
+	}
+
+	get stale(): boolean {
+		return this.answer !== null && this.fittedWith !== this.settings;
+	}
+
+	/** The temperature box as read by the engine's parser (null when empty). */
+	get temperatureReading() {
+		return readQuantity(this.temperature, 'temperature');
+	}
+
 	/** The engine's reading of the file (or its complaint), with the entered temperature if any. */
 	get preview(): { sweep: ParsedSweep | null; issues: DataIssue[]; needsTemperature: boolean } {
-		if (!this.text) return { sweep: null, issues: [], needsTemperature: false };
-		const t = this.temperature.trim() === '' ? undefined : Number(this.temperature);
+		if (!this.read) return { sweep: null, issues: [], needsTemperature: false };
+		const t = this.temperatureReading;
 		try {
-			return { sweep: parseSweepCsv(this.text, { temperatureC: Number.isFinite(t) ? t : undefined }), issues: [], needsTemperature: false };
+			return { sweep: parseSweepCsv(this.text, { temperatureC: t?.ok ? t.value : undefined }), issues: [], needsTemperature: false };
 		} catch (e) {
 			if (e instanceof SweepError) {
 				const needs = e.issues.some((i) => /temperature/.test(i.message) && i.row === undefined);
@@ -60,6 +93,19 @@ export class Intake {
 			return { sweep: null, issues: [{ message: (e as Error).message }], needsTemperature: false };
 		}
 	}
+}
+
+/** A server's JSON error (or a body that is not JSON) in words, without status codes. */
+export function problemFrom(status: number, body: unknown): Problem {
+	const e = (body as { error?: { message?: string; issues?: (DataIssue & { path?: string })[] } } | null)?.error;
+	if (e?.message) {
+		// Issues that only repeat the message (a single field's complaint) are not shown twice.
+		const issues = (e.issues ?? []).filter((i) => i.message !== e.message && !e.message!.includes(i.message));
+		return { message: e.message, issues };
+	}
+	if (status === 413) return { message: 'The file is larger than the server accepts. Nothing was stored.' };
+	if (status >= 500) return { message: 'The server could not take the file just now. Nothing was stored; press Fit to try again.' };
+	return { message: 'The server answered in a way this page did not expect. Nothing was stored; press Fit to try again.' };
 }
 
 /** Posts a file with real upload progress; resolves with status and parsed JSON. */
@@ -80,11 +126,11 @@ export function send(url: string, form: FormData, onProgress: (fraction: number)
 			try {
 				body = JSON.parse(xhr.responseText);
 			} catch {
-				body = { error: { message: xhr.responseText.slice(0, 200) || `HTTP ${xhr.status}` } };
+				body = null;
 			}
 			resolve({ status: xhr.status, body });
 		};
-		xhr.onerror = () => reject(new Error('The connection failed during the upload.'));
+		xhr.onerror = () => reject(new Error('The connection failed during the upload. Nothing was stored; press Fit to try again.'));
 		xhr.send(form);
 	});
 }

@@ -1,4 +1,4 @@
-// npm run cli -- token create --email <address> [--name <name>]
+// npm run cli -- token create --email <address> [--name <name>] [--days <n>]
 // npm run cli -- admin grant --email <address> [--name <name>]
 //
 // Uses the database npm start uses: DATABASE_URL from the environment or .env, else the
@@ -10,12 +10,13 @@ import { locateDatabase, printableUrl, type RunningStart } from '../src/lib/serv
 
 const { positionals, values } = parseArgs({
 	allowPositionals: true,
-	options: { email: { type: 'string' }, name: { type: 'string' } }
+	options: { email: { type: 'string' }, name: { type: 'string' }, days: { type: 'string' } }
 });
 const [noun, verb] = positionals;
 
 const usage = `usage:
-  npm run cli -- token create --email <address> [--name <label>]   print a new API token
+  npm run cli -- token create --email <address> [--name <label>] [--days <n>]
+                                        print a new API token that works for n days (default 90, at most 366)
   npm run cli -- admin grant --email <address> [--name <name>]     make that person an admin`;
 
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -49,13 +50,17 @@ async function main() {
 	const people = await import('../src/lib/server/people');
 	const tokens = await import('../src/lib/server/tokens');
 	const { isDatabaseDown } = await import('../src/lib/server/api');
+	const { TOKEN_DEFAULT_DAYS, TOKEN_MAX_DAYS } = await import('../src/lib/schemas/people');
 	const { client } = await import('../src/lib/server/db');
 	try {
 		if (!values.email) throw new Error('--email is required\n' + usage);
 		if (noun === 'token' && verb === 'create') {
 			const person = await people.findByEmail(values.email);
 			if (!person) throw new Error(`no person with e-mail ${values.email} in ${printableUrl(database.url)} (${database.from})`);
-			const created = await tokens.create(person.id, values.name ?? 'command line', null);
+			if (!people.maySignIn(person)) throw new Error(`${values.email} is deactivated; an admin can reactivate them on the People page`);
+			const days = Number(values.days ?? TOKEN_DEFAULT_DAYS);
+			if (!Number.isInteger(days) || days < 1 || days > TOKEN_MAX_DAYS) throw new Error(`--days is a whole number of days from 1 to ${TOKEN_MAX_DAYS}`);
+			const created = await tokens.create(person.id, values.name ?? 'command line', null, new Date(Date.now() + days * 86_400_000));
 			console.log(created.token);
 		} else if (noun === 'admin' && verb === 'grant') {
 			const person = await people.upsert({ email: values.email, name: values.name ?? values.email, roles: ['admin'] }, null);

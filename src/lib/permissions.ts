@@ -5,6 +5,14 @@
 export const ROLES = ['designer', 'librarian', 'lead', 'admin'] as const;
 export type Role = (typeof ROLES)[number];
 
+/** What each role lets a person do, for the words beside a grant or removal. */
+export const ROLE_WORDS: Record<Role, string> = {
+	designer: 'rank parts, build shortlists and send them to a lead',
+	librarian: 'add and change parts, samples and measurement runs',
+	lead: 'decide on submitted shortlists',
+	admin: 'manage people, roles and access'
+};
+
 export type Actor = { id: string; roles: readonly Role[] } | null;
 
 export const ACTIONS = [
@@ -36,6 +44,29 @@ const GRANTS: Record<Action, readonly Role[] | 'any-role'> = {
 	'people:manage': ['admin'],
 	'tokens:own': 'any-role'
 };
+
+/** What each action lets a person do, in the words the screens use. */
+export const ACTION_WORDS: Record<Action, string> = {
+	'catalogue:read': 'Looking up parts in the catalogue',
+	'catalogue:write': 'Adding and changing parts, samples and measurement runs',
+	'rank:use': 'Ranking junctions',
+	'project:read': 'Opening projects',
+	'project:create': 'Starting a project',
+	'shortlist:edit': "Changing a project's shortlist or members",
+	'review:submit': 'Sending a shortlist to the lead',
+	'review:decide': 'Deciding on a shortlist',
+	'people:manage': 'Managing people and roles',
+	'tokens:own': 'Keeping API tokens'
+};
+
+/** Why a person may not take an action, naming the role that would allow it. */
+export function refusalWords(action: Action): string {
+	const grant = GRANTS[action];
+	const roles = grant === 'any-role' ? null : grant.join(' or ');
+	return roles
+		? `${ACTION_WORDS[action]} needs the ${roles} role. If your work needs it, ask an admin to grant it.`
+		: `${ACTION_WORDS[action]} needs a role on the team. Ask an admin to grant you one.`;
+}
 
 /** Facts about the record that narrow a decision (only reviews need them so far). */
 export type ReviewResource = { leadId: string | null; submittedBy: string | null };

@@ -48,9 +48,9 @@ const config: SvelteKitAuthConfig = {
 			const path = url.startsWith(baseUrl + '/') ? url.slice(baseUrl.length) : url;
 			return baseUrl + returnPath(path);
 		},
-		// Only people an admin has added may sign in.
+		// Only people an admin has added, and not deactivated, may sign in.
 		async signIn({ user }) {
-			return Boolean(user.email && (await people.findByEmail(user.email)));
+			return Boolean(user.email && people.maySignIn(await people.findByEmail(user.email)));
 		},
 		// The session row carries its token: hand pages nothing but who is signed in.
 		session({ session }) {
@@ -81,7 +81,7 @@ export async function requestSignInLink(event: RequestEvent, email: string, next
 			)
 		);
 	if (n >= PER_ADDRESS_PER_15_MIN) return 'limited';
-	if (!(await people.findByEmail(address))) return 'sent';
+	if (!people.maySignIn(await people.findByEmail(address))) return 'sent';
 	const origin = event.url.origin;
 	const request = new Request(`${origin}/auth/signin/nodemailer`, {
 		method: 'POST',

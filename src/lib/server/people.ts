@@ -1,13 +1,16 @@
-import { and, asc, eq, gt, inArray, isNull, sql } from 'drizzle-orm';
+import { and, asc, eq, gt, inArray, isNotNull, isNull, or, sql } from 'drizzle-orm';
 import { db, type DbOrTx } from './db';
 import { apiTokens, sessions, userRoles, users } from './db/schema';
 import { recordAudit } from './audit';
+import { DomainError } from './api';
 import { enqueueMail } from './mail';
 import { isRole, type Role } from '$lib/permissions';
 
-export type Person = { id: string; email: string; name: string; roles: Role[] };
-/** A person as lists and records name them. */
-export type PersonRef = { id: string; name: string; email: string };
+/** A person with their roles; `deactivatedAt` is set while an admin has switched them off. */
+export type Person = { id: string; email: string; name: string; roles: Role[]; deactivatedAt: Date | null };
+/** A person as lists and records name them (a type the screens share). */
+export type { PersonRef } from '$lib/projects/shortlist';
+import type { PersonRef } from '$lib/projects/shortlist';
 
 function normaliseEmail(email: string) {
 	return email.trim().toLowerCase();
@@ -24,18 +27,23 @@ async function rolesOf(tx: DbOrTx, userIds: string[]): Promise<Map<string, Role[
 	return map;
 }
 
-function toPerson(u: { id: string; email: string; name: string | null }, roles: Role[] | undefined): Person {
-	return { id: u.id, email: u.email, name: u.name ?? u.email, roles: (roles ?? []).sort() };
+function toPerson(u: { id: string; email: string; name: string | null; deactivatedAt: Date | null }, roles: Role[] | undefined): Person {
+	return { id: u.id, email: u.email, name: u.name ?? u.email, roles: (roles ?? []).sort(), deactivatedAt: u.deactivatedAt };
 }
 
 /** Roles gathered in the same query as the person (one round trip per request). */
 const rolesColumn = sql<Role[] | null>`(select array_agg(${userRoles.role} order by ${userRoles.role}) from ${userRoles} where ${userRoles.userId} = ${users.id})`;
 
-const personColumns = { id: users.id, email: users.email, name: users.name, roles: rolesColumn };
+const personColumns = { id: users.id, email: users.email, name: users.name, deactivatedAt: users.deactivatedAt, roles: rolesColumn };
 
 export async function findByEmail(email: string, tx: DbOrTx = db): Promise<Person | null> {
 	const [row] = await tx.select(personColumns).from(users).where(eq(users.email, normaliseEmail(email)));
 	return row ? toPerson(row, (row.roles ?? []).filter(isRole)) : null;
+}
+
+/** Whether this person (if any) may sign in: known to the team and not deactivated. */
+export function maySignIn(person: Person | null): person is Person {
+	return person !== null && person.deactivatedAt === null;
 }
 
 export async function findById(id: string, tx: DbOrTx = db): Promise<Person | null> {
@@ -43,13 +51,13 @@ export async function findById(id: string, tx: DbOrTx = db): Promise<Person | nu
 	return row ? toPerson(row, (row.roles ?? []).filter(isRole)) : null;
 }
 
-/** The person behind a browser session cookie, or null when absent or expired. */
+/** The person behind a browser session cookie, or null when absent, expired or deactivated. */
 export async function findBySessionToken(token: string): Promise<Person | null> {
 	const [row] = await db
 		.select(personColumns)
 		.from(sessions)
 		.innerJoin(users, eq(users.id, sessions.userId))
-		.where(and(eq(sessions.sessionToken, token), gt(sessions.expires, new Date())));
+		.where(and(eq(sessions.sessionToken, token), gt(sessions.expires, new Date()), isNull(users.deactivatedAt)));
 	return row ? toPerson(row, (row.roles ?? []).filter(isRole)) : null;
 }
 
@@ -61,10 +69,17 @@ const byTokenHash = db
 	.select({ ...personColumns, tokenId: apiTokens.id, tokenHash: apiTokens.tokenHash, lastUsedAt: apiTokens.lastUsedAt })
 	.from(apiTokens)
 	.innerJoin(users, eq(users.id, apiTokens.userId))
-	.where(and(eq(apiTokens.tokenHash, sql.placeholder('digest')), isNull(apiTokens.revokedAt)))
+	.where(
+		and(
+			eq(apiTokens.tokenHash, sql.placeholder('digest')),
+			isNull(apiTokens.revokedAt),
+			or(isNull(apiTokens.expiresAt), gt(apiTokens.expiresAt, sql`now()`)),
+			isNull(users.deactivatedAt)
+		)
+	)
 	.prepare('people_by_token_hash');
 
-/** The owner of an unrevoked API token with this SHA-256, with the token's id and last use. */
+/** The active owner of an unrevoked, unexpired API token with this SHA-256, with the token's id and last use. */
 export async function findByTokenHash(digest: string) {
 	const [row] = await byTokenHash.execute({ digest });
 	if (!row) return null;
@@ -88,12 +103,13 @@ export async function list(): Promise<Person[]> {
 	return rows.map((u) => toPerson(u, roles.get(u.id)));
 }
 
+/** Active people holding the role (a deactivated lead is neither offered nor mailed). */
 export async function listWithRole(role: Role, tx: DbOrTx = db): Promise<Person[]> {
 	const rows = await tx
-		.select({ id: users.id, email: users.email, name: users.name })
+		.select({ id: users.id, email: users.email, name: users.name, deactivatedAt: users.deactivatedAt })
 		.from(users)
 		.innerJoin(userRoles, eq(userRoles.userId, users.id))
-		.where(eq(userRoles.role, role));
+		.where(and(eq(userRoles.role, role), isNull(users.deactivatedAt)));
 	const roles = await rolesOf(
 		tx,
 		rows.map((r) => r.id)
@@ -139,13 +155,19 @@ export async function upsert(
 	});
 }
 
-export async function setRole(userId: string, role: Role, granted: boolean, actorId: string) {
-	await db.transaction(async (tx) => {
-		if (granted) {
-			await tx.insert(userRoles).values({ userId, role, grantedBy: actorId }).onConflictDoNothing();
-		} else {
-			await tx.delete(userRoles).where(and(eq(userRoles.userId, userId), eq(userRoles.role, role)));
-		}
+/**
+ * Grants or removes one role, with its audit row. Returns whether anything changed (granting
+ * a role already held, or removing one not held, changes nothing and records nothing).
+ */
+export async function setRole(userId: string, role: Role, granted: boolean, actorId: string): Promise<boolean> {
+	return db.transaction(async (tx) => {
+		const rows = granted
+			? await tx.insert(userRoles).values({ userId, role, grantedBy: actorId }).onConflictDoNothing().returning({ role: userRoles.role })
+			: await tx
+					.delete(userRoles)
+					.where(and(eq(userRoles.userId, userId), eq(userRoles.role, role)))
+					.returning({ role: userRoles.role });
+		if (rows.length === 0) return false;
 		await recordAudit(tx, {
 			actorId,
 			action: granted ? 'role.granted' : 'role.revoked',
@@ -153,7 +175,60 @@ export async function setRole(userId: string, role: Role, granted: boolean, acto
 			entityId: userId,
 			detail: { role }
 		});
+		return true;
 	});
+}
+
+/**
+ * Switches a person off at once: every browser session is ended and every API token revoked
+ * in the same transaction as the flag and its audit row, so nothing they hold keeps working.
+ * Their name stays on everything they did; sign-in is refused until they are reactivated.
+ */
+export async function deactivate(userId: string, actorId: string): Promise<Person> {
+	if (userId === actorId) throw new DomainError(400, 'You cannot deactivate yourself; ask another admin.');
+	return db.transaction(async (tx) => {
+		const [u] = await tx
+			.update(users)
+			.set({ deactivatedAt: new Date() })
+			.where(and(eq(users.id, userId), isNull(users.deactivatedAt)))
+			.returning();
+		if (!u) throw await accessRefusal(tx, userId, 'already deactivated');
+		const ended = await tx.delete(sessions).where(eq(sessions.userId, userId)).returning({ token: sessions.sessionToken });
+		const revoked = await tx
+			.update(apiTokens)
+			.set({ revokedAt: new Date() })
+			.where(and(eq(apiTokens.userId, userId), isNull(apiTokens.revokedAt)))
+			.returning({ id: apiTokens.id });
+		await recordAudit(tx, {
+			actorId,
+			action: 'person.deactivated',
+			entity: 'person',
+			entityId: userId,
+			detail: { email: u.email, sessionsEnded: ended.length, tokensRevoked: revoked.length }
+		});
+		return toPerson(u, (await rolesOf(tx, [u.id])).get(u.id));
+	});
+}
+
+/** Lets a deactivated person sign in again (revoked tokens stay revoked: they make new ones). */
+export async function reactivate(userId: string, actorId: string): Promise<Person> {
+	return db.transaction(async (tx) => {
+		const [u] = await tx
+			.update(users)
+			.set({ deactivatedAt: null })
+			.where(and(eq(users.id, userId), isNotNull(users.deactivatedAt)))
+			.returning();
+		if (!u) throw await accessRefusal(tx, userId, 'active');
+		await recordAudit(tx, { actorId, action: 'person.reactivated', entity: 'person', entityId: userId, detail: { email: u.email } });
+		return toPerson(u, (await rolesOf(tx, [u.id])).get(u.id));
+	});
+}
+
+/** 404 for an unknown person, 409 when they are already in the state asked for. */
+async function accessRefusal(tx: DbOrTx, userId: string, already: string): Promise<DomainError> {
+	const person = await findById(userId, tx);
+	if (!person) return new DomainError(404, 'There is no such person.');
+	return new DomainError(409, `${person.name} is ${already}.`);
 }
 
 export function escapeHtml(s: string): string {

@@ -4,6 +4,7 @@ import { db } from './db';
 import { apiTokens } from './db/schema';
 import { recordAudit } from './audit';
 import * as people from './people';
+import { TOKEN_DEFAULT_DAYS } from '$lib/schemas/people';
 
 const PREFIX = 'jct_';
 
@@ -11,15 +12,25 @@ function hash(token: string): string {
 	return createHash('sha256').update(token).digest('hex');
 }
 
-/** Creates a personal token; the secret is returned once and only its hash is kept. */
-export async function create(userId: string, name: string, actorId: string | null = userId) {
+/**
+ * Creates a personal token; the secret is returned once and only its hash is kept. The
+ * token is refused from `expiresAt` on (checked on every request); TOKEN_DEFAULT_DAYS
+ * from now unless given.
+ */
+export async function create(userId: string, name: string, actorId: string | null = userId, expiresAt: Date = new Date(Date.now() + TOKEN_DEFAULT_DAYS * 86_400_000)) {
 	const token = PREFIX + randomBytes(32).toString('base64url');
 	return db.transaction(async (tx) => {
 		const [row] = await tx
 			.insert(apiTokens)
-			.values({ userId, name, tokenHash: hash(token), prefix: token.slice(0, PREFIX.length + 6) })
-			.returning({ id: apiTokens.id, name: apiTokens.name, createdAt: apiTokens.createdAt });
-		await recordAudit(tx, { actorId, action: 'token.created', entity: 'api-token', entityId: row.id, detail: { userId, name } });
+			.values({ userId, name, tokenHash: hash(token), prefix: token.slice(0, PREFIX.length + 6), expiresAt })
+			.returning({ id: apiTokens.id, name: apiTokens.name, createdAt: apiTokens.createdAt, expiresAt: apiTokens.expiresAt });
+		await recordAudit(tx, {
+			actorId,
+			action: 'token.created',
+			entity: 'api-token',
+			entityId: row.id,
+			detail: { userId, name, expiresAt: expiresAt.toISOString() }
+		});
 		return { ...row, token };
 	});
 }
@@ -32,7 +43,8 @@ export async function listFor(userId: string) {
 			prefix: apiTokens.prefix,
 			createdAt: apiTokens.createdAt,
 			lastUsedAt: apiTokens.lastUsedAt,
-			revokedAt: apiTokens.revokedAt
+			revokedAt: apiTokens.revokedAt,
+			expiresAt: apiTokens.expiresAt
 		})
 		.from(apiTokens)
 		.where(eq(apiTokens.userId, userId))
@@ -51,7 +63,7 @@ export async function revoke(userId: string, tokenId: number): Promise<boolean> 
 	});
 }
 
-/** The person a bearer token belongs to, or null for an unknown, forged or revoked token. */
+/** The person a bearer token belongs to, or null for an unknown, forged, revoked or expired token, or a deactivated person. */
 export async function resolve(token: string): Promise<people.Person | null> {
 	if (!token.startsWith(PREFIX) || token.length > 200) return null;
 	const digest = hash(token);

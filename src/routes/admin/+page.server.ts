@@ -1,13 +1,16 @@
 import { fail } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
+import { DomainError } from '$lib/server/api';
 import * as people from '$lib/server/people';
-import { fieldErrors, inviteForm, roleChangeForm } from '$lib/schemas/people';
+import { fieldErrors, inviteForm, personForm, roleChangeForm } from '$lib/schemas/people';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
-	requirePermission(event, 'people:manage');
-	return { people: await people.list() };
+	const user = requirePermission(event, 'people:manage');
+	return { people: await people.list(), me: user.id };
 };
+
+const gone = () => fail(404, { changeError: 'That person is not on the list any more; reload the page.' });
 
 export const actions: Actions = {
 	invite: async (event) => {
@@ -19,15 +22,57 @@ export const actions: Actions = {
 		const person = await people.upsert(parsed.data, actor.id, `${event.url.origin}/signin`);
 		return { invited: person.email };
 	},
+	// Each change is asked for, then confirmed: the first post returns the question, the second (confirm=1) acts.
 	role: async (event) => {
 		const actor = requirePermission(event, 'people:manage');
 		const parsed = roleChangeForm.safeParse(Object.fromEntries(await event.request.formData()));
-		if (!parsed.success) return fail(400, { roleError: 'That role change was not understood.' });
-		const { userId, role, grant } = parsed.data;
+		if (!parsed.success) return fail(400, { changeError: 'That role change was not understood; reload the page and try again.' });
+		const { userId, role, grant, confirm } = parsed.data;
 		if (!grant && role === 'admin' && userId === actor.id) {
-			return fail(400, { roleError: 'You cannot remove your own admin role; ask another admin.' });
+			return fail(400, { changeError: 'You cannot remove your own admin role; ask another admin.' });
 		}
-		await people.setRole(userId, role, grant, actor.id);
-		return { changed: true };
+		const person = await people.findById(userId);
+		if (!person) return gone();
+		if (!confirm) return { confirm: { kind: 'role' as const, userId, role, grant, name: person.name } };
+		const changed = await people.setRole(userId, role, grant, actor.id);
+		const done = grant
+			? changed
+				? `${person.name} now holds the ${role} role.`
+				: `${person.name} already held the ${role} role; nothing changed.`
+			: changed
+				? `${person.name} no longer holds the ${role} role.`
+				: `${person.name} did not hold the ${role} role; nothing changed.`;
+		return { done, doneFor: userId };
+	},
+	deactivate: async (event) => {
+		const actor = requirePermission(event, 'people:manage');
+		const parsed = personForm.safeParse(Object.fromEntries(await event.request.formData()));
+		if (!parsed.success) return fail(400, { changeError: 'Which person? Reload the page and try again.' });
+		const person = await people.findById(parsed.data.userId);
+		if (!person) return gone();
+		if (person.id === actor.id) return fail(400, { changeError: 'You cannot deactivate yourself; ask another admin.' });
+		if (!parsed.data.confirm) return { confirm: { kind: 'deactivate' as const, userId: person.id, name: person.name } };
+		try {
+			await people.deactivate(person.id, actor.id);
+		} catch (e) {
+			if (e instanceof DomainError) return fail(e.status, { changeError: e.message });
+			throw e;
+		}
+		return { done: `${person.name} is deactivated: signed out everywhere, every API token revoked. Their work stays on record.`, doneFor: person.id };
+	},
+	reactivate: async (event) => {
+		const actor = requirePermission(event, 'people:manage');
+		const parsed = personForm.safeParse(Object.fromEntries(await event.request.formData()));
+		if (!parsed.success) return fail(400, { changeError: 'Which person? Reload the page and try again.' });
+		const person = await people.findById(parsed.data.userId);
+		if (!person) return gone();
+		if (!parsed.data.confirm) return { confirm: { kind: 'reactivate' as const, userId: person.id, name: person.name } };
+		try {
+			await people.reactivate(person.id, actor.id);
+		} catch (e) {
+			if (e instanceof DomainError) return fail(e.status, { changeError: e.message });
+			throw e;
+		}
+		return { done: `${person.name} can sign in again. Their old API tokens stay revoked; they can make new ones.`, doneFor: person.id };
 	}
 };

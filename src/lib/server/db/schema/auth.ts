@@ -22,6 +22,8 @@ export const users = pgTable('users', {
 	email: text('email').notNull().unique(),
 	emailVerified: timestamp('email_verified', { withTimezone: true, mode: 'date' }),
 	image: text('image'),
+	/** Set while an admin has deactivated the person: no sign-in, no sessions, no tokens; history kept. */
+	deactivatedAt: timestamp('deactivated_at', { withTimezone: true, mode: 'date' }),
 	...timestamps
 });
 
@@ -108,6 +110,8 @@ export const apiTokens = pgTable(
 		prefix: text('prefix').notNull(),
 		lastUsedAt: timestamp('last_used_at', { withTimezone: true, mode: 'date' }),
 		revokedAt: timestamp('revoked_at', { withTimezone: true, mode: 'date' }),
+		/** The token stops working at this instant; null for tokens made before expiry dates existed. */
+		expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }),
 		...timestamps
 	},
 	(t) => [uniqueIndex('api_tokens_hash_idx').on(t.tokenHash), index('api_tokens_user_idx').on(t.userId)]

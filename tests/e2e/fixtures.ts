@@ -47,6 +47,40 @@ export async function signInAs(page: Page, email: string, next = '/') {
 	await page.waitForLoadState('networkidle');
 }
 
+/** Waits until the page runs in the browser (the root layout marks <main> once it has). */
+export async function whenReady(page: Page) {
+	await expect(page.locator('main[data-ready="yes"]')).toBeVisible({ timeout: 20_000 });
+}
+
+/** Fails when the page scrolls sideways at the current width. */
+export async function noSideScroll(page: Page) {
+	const { over, culprits } = await page.evaluate(() => {
+		const width = document.documentElement.clientWidth;
+		// The first few elements reaching past the right edge, to name in the failure.
+		const culprits = [...document.querySelectorAll('body *')]
+			.filter((el) => el.getBoundingClientRect().right > width + 1)
+			.slice(0, 3)
+			.map((el) => `${el.tagName.toLowerCase()}.${String(el.className).slice(0, 60)}`);
+		return { over: document.documentElement.scrollWidth - width, culprits };
+	});
+	expect(over, `the page scrolls sideways; too wide: ${culprits.join(' | ')}`).toBeLessThanOrEqual(0);
+}
+
+/** Screenshots at 1280 px and 390 px wide (each checked for sideways scrolling), then back to 1280 px. */
+export async function screenshotWidths(page: Page, name: string) {
+	for (const [width, height] of [
+		[1280, 900],
+		[390, 844]
+	] as const) {
+		await page.setViewportSize({ width, height });
+		// Charts redraw to the new width on the next frames.
+		await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(() => setTimeout(r, 250)))));
+		await noSideScroll(page);
+		await screenshot(page, `${name}-${width}`);
+	}
+	await page.setViewportSize({ width: 1280, height: 900 });
+}
+
 export async function screenshot(page: Page, name: string) {
 	mkdirSync(SCREENSHOTS, { recursive: true });
 	await page.screenshot({ path: `${SCREENSHOTS}/${name}.png`, fullPage: true });

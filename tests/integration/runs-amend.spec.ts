@@ -331,7 +331,7 @@ describe('the run page', () => {
 
 		const typo = await browse(`${page}?/refit`, { as: 'librarian', form: { fromV: '0.4 V', toV: 'half', reason: '' } });
 		expect(typo.status).toBe(400);
-		expect(typo.text).toMatch(/expected a voltage/i);
+		expect(typo.text).toContain('Not read as a voltage: write it like −5 V or 612 mV.');
 		const refit = await browse(`${page}?/refit`, { as: 'librarian', form: { fromV: '400m', toV: '0.45 V', reason: 'range change' } });
 		expect(refit.status).toBe(200);
 		const [current] = await db.select().from(fits).where(and(eq(fits.runId, run), eq(fits.version, 2)));

@@ -1,8 +1,8 @@
 // What a librarian sends to put a stored run right: the API's JSON bodies and the run
 // page's forms (typed values with SI prefixes) arrive at the same schemas.
 import { z } from 'zod';
-import { parseTemperature, parseVoltage } from '$lib/junction/units';
 import { sampleInput, temperatureC } from './catalogue';
+import { optionalQuantity } from './quantity';
 
 const reason = (required: string) => z.string({ message: required }).trim().min(1, required).max(1000, 'Keep the reason under 1000 characters.');
 const optionalReason = z.string().trim().max(1000, 'Keep the reason under 1000 characters.').default('');
@@ -30,27 +30,26 @@ export type CorrectInput = z.infer<typeof correctSchema>;
 /** Form fields keyed as the run page labels them. */
 export type FieldErrors = Record<string, string>;
 
-function typed<T>(text: string, parse: (s: string) => T, field: string, errors: FieldErrors): T | undefined {
-	if (!text.trim()) return undefined;
-	try {
-		return parse(text);
-	} catch (e) {
-		errors[field] = e instanceof Error ? e.message.replace(/^expected/, 'Expected') : 'Not understood.';
-		return undefined;
-	}
-}
-
 function firstIssues(e: z.ZodError, fieldOf: Record<string, string>, errors: FieldErrors) {
 	for (const i of e.issues) errors[fieldOf[String(i.path[0])] ?? 'form'] ??= i.message;
 }
 
-/** The re-fit form: "from" and "to" as typed ("-0.2 V", "350m"), both or neither. */
+/** The re-fit form's window as typed ("-0.2 V", "350m"), read by the engine's parser. */
+const windowForm = z.object({ fromV: optionalQuantity('voltage', 'From'), toV: optionalQuantity('voltage', 'To') });
+
+/** The re-fit form: "from" and "to" as typed, both or neither. */
 export function refitFromForm(v: { fromV: string; toV: string; reason: string }): { input?: RefitInput; errors: FieldErrors } {
 	const errors: FieldErrors = {};
-	const lo = typed(v.fromV, parseVoltage, 'fromV', errors);
-	const hi = typed(v.toV, parseVoltage, 'toV', errors);
-	if ((lo === undefined) !== (hi === undefined) && !errors.fromV && !errors.toV) errors[lo === undefined ? 'fromV' : 'toV'] = 'Give both ends of the window, or neither to fit every point.';
-	if (Object.keys(errors).length) return { errors };
+	const w = windowForm.safeParse({ fromV: v.fromV, toV: v.toV });
+	if (!w.success) {
+		firstIssues(w.error, { fromV: 'fromV', toV: 'toV' }, errors);
+		return { errors };
+	}
+	const { fromV: lo, toV: hi } = w.data;
+	if ((lo === undefined) !== (hi === undefined)) {
+		errors[lo === undefined ? 'fromV' : 'toV'] = 'Give both ends of the window, or neither to fit every point.';
+		return { errors };
+	}
 	const r = refitSchema.safeParse({ excludeV: lo !== undefined && hi !== undefined ? [lo, hi] : null, reason: v.reason });
 	if (!r.success) {
 		firstIssues(r.error, { excludeV: 'toV', reason: 'reason' }, errors);
@@ -62,9 +61,11 @@ export function refitFromForm(v: { fromV: string; toV: string; reason: string })
 /** The correction form: the sample label and the temperature as typed ("85 °C", "358.15 K"). */
 export function correctionFromForm(v: { sample: string; temperature: string; reason: string }): { input?: CorrectInput; errors: FieldErrors } {
 	const errors: FieldErrors = {};
-	const t = typed(v.temperature, (s) => parseTemperature(s).celsius, 'temperature', errors);
-	if (Object.keys(errors).length) return { errors };
-	const r = correctSchema.safeParse({ ...(v.sample.trim() ? { sample: v.sample.trim() } : {}), ...(t !== undefined ? { temperatureC: t } : {}), reason: v.reason });
+	const r = correctSchema.safeParse({
+		...(v.sample.trim() ? { sample: v.sample.trim() } : {}),
+		...(v.temperature.trim() ? { temperatureC: v.temperature } : {}),
+		reason: v.reason
+	});
 	if (!r.success) {
 		firstIssues(r.error, { sample: 'sample', temperatureC: 'temperature', reason: 'reason' }, errors);
 		return { errors };

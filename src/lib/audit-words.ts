@@ -2,7 +2,6 @@
  * The audit log in words: what each recorded action means, for the admin's audit page and
  * a project's activity list. Pure, so one table serves every screen.
  */
-import { ACTION_DONE, isReviewState, STATE_LABEL } from './review-transitions';
 
 export type AuditFacts = {
 	action: string;
@@ -29,7 +28,19 @@ export const AUDIT_ACTIONS: Record<string, Entry> = {
 		words: (f) => `stored run ${f.entityId} of sample ${str(f.detail.sample, '?')} (${str(f.detail.fileName, 'no file name')}) for part ${str(f.detail.partId, '?')}`
 	},
 	'project.created': { label: 'Project started', words: (f) => `started the project ${str(f.detail.name, f.entityId)}` },
+	'run.withdraw': { label: 'Run withdrawn', words: (f) => `withdrew run ${f.entityId} of part ${str(f.detail.partId, '?')} from its model${quoted(f.detail.reason)}` },
+	'run.reinstate': { label: 'Run put back', words: (f) => `put run ${f.entityId} of part ${str(f.detail.partId, '?')} back into its model${quoted(f.detail.reason)}` },
+	'run.refit': { label: 'Run fitted again', words: (f) => `fitted run ${f.entityId} of part ${str(f.detail.partId, '?')} again${quoted(f.detail.reason)}` },
+	'run.correct': { label: 'Run corrected', words: (f) => `corrected the sample or temperature of run ${f.entityId} of part ${str(f.detail.partId, '?')}${quoted(f.detail.reason)}` },
 	'project.member-added': { label: 'Project member added', words: (f) => `added ${str(f.detail.email, 'someone')} as a member` },
+	'project.member-removed': {
+		label: 'Project member removed',
+		words: (f) => `removed ${str(f.detail.name, str(f.detail.email, 'someone'))} from the project${f.detail.wasLead ? ' (they were its lead; any lead now decides)' : ''}`
+	},
+	'project.lead-changed': {
+		label: 'Project lead changed',
+		words: (f) => (f.detail.to ? `named ${str(f.detail.toName, str(f.detail.to, 'someone'))} the lead` : 'let any lead decide')
+	},
 	'shortlist.added': { label: 'Part put on a shortlist', words: (f) => `added ${str(f.detail.partNumber, 'a part')} to the shortlist${quoted(f.detail.note)}` },
 	'shortlist.removed': { label: 'Part taken off a shortlist', words: (f) => `removed ${str(f.detail.partNumber, 'a part')} from the shortlist` },
 	'review.submit': { label: 'Shortlist sent for review', words: () => 'sent the shortlist to the lead' },
@@ -50,9 +61,14 @@ export const AUDIT_ACTIONS: Record<string, Entry> = {
 	'token.revoked': { label: 'API token revoked', words: (f) => `revoked API token ${f.entityId}` }
 };
 
-function decided(f: AuditFacts, action: 'approve' | 'request-changes' | 'reject'): string {
-	const to = typeof f.detail.to === 'string' && isReviewState(f.detail.to) ? ` (now ${STATE_LABEL[f.detail.to].toLowerCase()})` : '';
-	return `${ACTION_DONE[action]} the shortlist${to}`;
+const DECIDED: Record<'approve' | 'request-changes' | 'reject', string> = {
+	approve: 'approved the shortlist',
+	'request-changes': 'sent the shortlist back for changes',
+	reject: 'declined the shortlist'
+};
+
+function decided(f: AuditFacts, action: keyof typeof DECIDED): string {
+	return `${DECIDED[action]}${quoted(f.detail.comment)}`;
 }
 
 function counted(v: unknown, noun: string): string {

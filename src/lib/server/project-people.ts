@@ -96,6 +96,8 @@ export async function changeLead(projectId: number, leadEmail: string | null, ac
 		const lead = leadEmail ? await personByEmail(leadEmail, tx, 'leadEmail') : null;
 		if (lead && !lead.roles.includes('lead'))
 			throw new DomainError(422, `${lead.name} does not hold the lead role.`, [{ path: 'leadEmail', message: `${lead.email} is not a lead.` }]);
+		if (lead?.deactivatedAt)
+			throw new DomainError(422, `${lead.name} is deactivated and cannot decide.`, [{ path: 'leadEmail', message: `${lead.name} is deactivated; choose another lead.` }]);
 		if ((lead?.id ?? null) === project.leadId)
 			throw new DomainError(409, lead ? `${lead.name} already decides this project.` : 'Any lead already decides this project.', [{ path: 'leadEmail', message: 'No change.' }]);
 		const check = checkLead(project.state, lead?.id ?? null, await submitter(tx, projectId), await people.listWithRole('lead', tx));

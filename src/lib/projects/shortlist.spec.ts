@@ -72,8 +72,10 @@ describe('what a lead approves over', () => {
 		expect(shortfalls([entry('QV-LL', prediction(5e-15), { leakageTargetA: 1e-14 })])).toEqual([]);
 	});
 
-	test('ratios are short: whole numbers from 100×, two figures below', () => {
+	test('ratios are short: two figures below 100×, whole numbers to 1000×, then three figures grouped', () => {
 		expect(ratioWords(832.4)).toBe('832×');
+		expect(ratioWords(25626194)).toBe('25,600,000×');
+		expect(ratioWords(1234.5)).toBe('1,230×');
 		expect(ratioWords(1.4321)).toBe('1.4×');
 		expect(ratioWords(12.5)).toBe('13×');
 	});

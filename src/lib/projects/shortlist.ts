@@ -73,8 +73,11 @@ export function verdict(p: Prediction, r: Limits): Verdict {
 	return { leakage, drop, overall };
 }
 
-/** "832×" for large ratios, "1.4×" for small ones. */
+const LARGE = new Intl.NumberFormat('en-GB', { maximumSignificantDigits: 3 });
+
+/** "1.4×" for small ratios, "832×" from 100, "25,600,000×" for huge ones (three figures, grouped). */
 export function ratioWords(x: number): string {
+	if (x >= 1000) return `${LARGE.format(x)}×`;
 	return x >= 100 ? `${Math.round(x)}×` : `${x.toPrecision(2)}×`;
 }
 

@@ -264,8 +264,9 @@ export async function activity(projectId: number): Promise<ActivityItem[]> {
 		items.push({ at: a.at, who: name(a.actorId), what: auditWords(a), kind: 'change' });
 	}
 	for (const e of events) {
-		const to = isReviewState(e.toState) ? STATE_LABEL[e.toState].toLowerCase() : e.toState;
-		items.push({ at: e.at, who: name(e.actorId), what: `${e.action === 'submit' ? 'sent the shortlist to review' : `decided: ${to}`}`, comment: e.comment || undefined, kind: 'review' });
+		// The same words as the audit log; the comment is shown beside them.
+		const what = auditWords({ action: `review.${e.action}`, entity: 'project', entityId: String(projectId), detail: {} });
+		items.push({ at: e.at, who: name(e.actorId), what, comment: e.comment || undefined, kind: 'review' });
 	}
 	return items.sort((a, b) => b.at.getTime() - a.at.getTime());
 }

@@ -1,7 +1,7 @@
 // A librarian's everyday forms: ratings typed with prefixes and units and read back as you
 // type, the kind refused in its display names, and an upload page that fits each readable
 // file as it arrives and says at once, in words, what is wrong with the others.
-import { expect, screenshotWidths, signInAs, test, whenReady } from './fixtures';
+import { expect, screenshotWidths, sessionFor, test, whenReady } from './fixtures';
 
 const VT25 = 0.025693;
 /** A forward sweep with a little noise; the salt makes each file new to the catalogue. */
@@ -19,8 +19,7 @@ function sweep(IS: number, N: number, RS: number): Buffer {
 let session: Awaited<ReturnType<import('@playwright/test').BrowserContext['storageState']>>;
 test.beforeAll(async ({ browser }) => {
 	const context = await browser.newContext({ baseURL: test.info().project.use.baseURL });
-	const page = await context.newPage();
-	await signInAs(page, 'librarian@demo.test', '/parts/new');
+	await sessionFor(context, 'librarian@demo.test');
 	session = await context.storageState();
 	await context.close();
 });

@@ -173,9 +173,9 @@ describe('people and roles', () => {
 
 	test('granting and revoking a role is recorded', async () => {
 		const person = await newPerson(['designer']);
-		await browse('/admin?/role', { as: 'admin', form: { userId: person.id, role: 'librarian', grant: '1' } });
+		await browse('/admin?/role', { as: 'admin', form: { userId: person.id, role: 'librarian', grant: '1', confirm: '1' } });
 		expect((await people.findById(person.id))?.roles).toEqual(['designer', 'librarian']);
-		await browse('/admin?/role', { as: 'admin', form: { userId: person.id, role: 'designer', grant: '0' } });
+		await browse('/admin?/role', { as: 'admin', form: { userId: person.id, role: 'designer', grant: '0', confirm: '1' } });
 		expect((await db.select().from(userRoles).where(eq(userRoles.userId, person.id))).map((r) => r.role)).toEqual(['librarian']);
 		const actions = (await db.select().from(auditLog).where(eq(auditLog.entityId, person.id))).map((a) => a.action);
 		expect(actions).toEqual(expect.arrayContaining(['role.granted', 'role.revoked']));

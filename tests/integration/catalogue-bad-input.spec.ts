@@ -45,7 +45,7 @@ const CASES: Case[] = [
 	{ name: 'no voltage column', body: 'Alpha,Beta\n0.3,1e-9\n0.4,1e-8\n', status: 422, message: /no voltage column/, row: 1 },
 	{ name: 'two current columns', body: 'V (V),I (A),Current (nA)\n0.3,1e-9,1\n', status: 422, message: /second current column/, row: 1 },
 	{ name: 'temperature entered in kelvin', body: good, query: 'sample=U9&temperatureC=298.15', status: 400, message: /kelvin/ },
-	{ name: 'temperature not a number', body: good, query: 'sample=U9&temperatureC=warm', status: 400, message: /number/ },
+	{ name: 'temperature not a number', body: good, query: 'sample=U9&temperatureC=warm', status: 400, message: /Not read as a temperature/ },
 	{ name: 'temperature column in °C holding kelvin', body: 'V (V),I (A),Temp (°C)\n0.3,1e-9,298\n0.4,1e-8,298\n0.5,1e-7,298\n', query: 'sample=U9', status: 422, message: /kelvin/, row: 2, column: 'Temp (°C)' },
 	{ name: 'no temperature anywhere', body: good, query: 'sample=U9', status: 422, message: /temperature/ },
 	{ name: 'two temperatures in one file', body: 'V (V),I (A),T (°C)\n' + lines.slice(1).map((l, k) => `${l},${k % 2 ? 25 : 85}`).join('\n'), query: 'sample=U9', status: 422, message: /one temperature per file/ },
@@ -59,7 +59,7 @@ const CASES: Case[] = [
 	{ name: 'JSON point with text voltage', json: { sample: 'U9', temperatureC: 25, points: [{ voltageV: '0.5', currentA: 1e-6 }] }, status: 400, message: /does not match/ },
 	{ name: 'JSON with no points', json: { sample: 'U9', temperatureC: 25, points: [] }, status: 400, message: /./ },
 	{ name: 'JSON that is not JSON', body: '{"sample": "U9", ', type: 'application/json', status: 400, message: /not valid JSON/ },
-	{ name: 'excluded range backwards', body: good, query: 'sample=U9&temperatureC=25&excludeFromV=0.6&excludeToV=0.5', status: 400, message: /excluded/ },
+	{ name: 'excluded range backwards', body: good, query: 'sample=U9&temperatureC=25&excludeFromV=0.6&excludeToV=0.5', status: 400, message: /left out of the fit/ },
 	{ name: 'unsupported content type', body: '<sweep/>', type: 'application/xml', status: 400, message: /multipart|csv/ }
 ];
 

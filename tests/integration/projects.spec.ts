@@ -137,9 +137,9 @@ describe('shortlist and review', () => {
 		const returned = await review(id, 'lead', { action: 'request-changes', comment: 'Drop the leaky one; it misses the target.' });
 		expect(returned.status).toBe(200);
 		expect(returned.body.state).toBe('returned');
-		const toDesigner = await mailbox.waitFor('designer@demo.test', new RegExp(`“${escape(before.body.name)}” sent back for changes`));
+		const toDesigner = await mailbox.waitFor('designer@demo.test', new RegExp(`“${escape(before.body.name)}”: Marisol Achterberg asks for changes`));
 		expect(toDesigner.text).toContain('Drop the leaky one');
-		await mailbox.waitFor('librarian@demo.test', new RegExp(`“${escape(before.body.name)}” sent back for changes`));
+		await mailbox.waitFor('librarian@demo.test', new RegExp(`“${escape(before.body.name)}”: Marisol Achterberg asks for changes`));
 
 		// Back to editing: the designer removes the leaky part and resubmits; the lead approves.
 		expect((await api('DELETE', `/api/v1/projects/${id}/shortlist`, { as: 'designer', json: { junctionId: leaky.id } })).status).toBe(204);

@@ -44,11 +44,9 @@ async function bodyBytes(event: RequestEvent): Promise<Uint8Array> {
 	}
 }
 
-function parseTemperature(raw: string | null | undefined, required: boolean): number | undefined {
-	if (raw === null || raw === undefined || String(raw).trim() === '') {
-		if (required) return undefined;
-		return undefined;
-	}
+/** The temperature given beside a file (°C, or with units); absent when the file must say it. */
+function parseTemperature(raw: string | null | undefined): number | undefined {
+	if (raw === null || raw === undefined || String(raw).trim() === '') return undefined;
 	const r = temperatureSchema.safeParse(String(raw).trim());
 	if (!r.success) throw new DomainError(400, r.error.issues[0].message, [{ path: 'temperatureC', message: r.error.issues[0].message }]);
 	return r.data;
@@ -88,7 +86,7 @@ export async function readUpload(event: RequestEvent): Promise<UploadRequest> {
 		const bytes = new Uint8Array(await file.arrayBuffer());
 		return {
 			sample: sampleFrom(form.get('sample')),
-			temperatureC: parseTemperature(form.get('temperatureC') as string | null, false),
+			temperatureC: parseTemperature(form.get('temperatureC') as string | null),
 			source: { kind: 'file', fileName: file.name || 'sweep.csv', bytes },
 			excludedV: parseExclusion(form.get('excludeFromV'), form.get('excludeToV'))
 		};
@@ -114,7 +112,7 @@ export async function readUpload(event: RequestEvent): Promise<UploadRequest> {
 		const bytes = await bodyBytes(event);
 		return {
 			sample: sampleFrom(q.get('sample')),
-			temperatureC: parseTemperature(q.get('temperatureC'), false),
+			temperatureC: parseTemperature(q.get('temperatureC')),
 			source: { kind: 'file', fileName: q.get('fileName') || 'sweep.csv', bytes },
 			excludedV: parseExclusion(q.get('excludeFromV'), q.get('excludeToV'))
 		};

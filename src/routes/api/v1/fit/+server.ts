@@ -30,7 +30,7 @@ export const POST = endpoint(async (event) => {
 		prepared = runs.prepare({ kind: 'points', points: r.data.points }, { temperatureC: r.data.temperatureC }, ctx);
 	} else {
 		const bytes = await bodyBytes(event);
-		const t = parseTemperature(event.url.searchParams.get('temperatureC'), false);
+		const t = parseTemperature(event.url.searchParams.get('temperatureC'));
 		prepared = runs.prepare({ kind: 'file', fileName: 'sweep.csv', bytes }, { temperatureC: t ?? 25, temperatureDefaulted: t === undefined }, ctx);
 	}
 	const f = prepared.fit;

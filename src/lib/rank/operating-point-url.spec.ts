@@ -9,7 +9,8 @@ import {
 	operatingPointFromQuery,
 	parseFields,
 	queryFromFields,
-	queryFromOperatingPoint
+	queryFromOperatingPoint,
+	screenMessage
 } from './operating-point-url';
 
 describe('operating point ↔ query string', () => {
@@ -93,11 +94,27 @@ describe('operating point ↔ query string', () => {
 
 	test('cross-field rules come back on the right field', () => {
 		const r1 = parseFields({ ...DEFAULT_FIELDS, allowedError: '1m' });
-		expect(r1.errors.allowedError).toMatch(/sourceResistanceOhm/);
+		expect(r1.errors.allowedError).toBe('An allowed error voltage needs the source resistance to turn it into a leakage.');
 		const r2 = parseFields({ ...DEFAULT_FIELDS, source: '1G', allowedError: '1m', leakage: '1p' });
 		expect(r2.errors.leakage).toMatch(/not both/);
 		const r3 = parseFields({ ...DEFAULT_FIELDS, clamp: '-1m' });
-		expect(r3.errors.clamp).toMatch(/greater than zero/);
+		expect(r3.errors.clamp).toBe('The clamp current must be greater than zero.');
+	});
+
+	test('schema messages reach the screen in its words, never as API names', () => {
+		const { errors } = parseFields({ ...DEFAULT_FIELDS, clamp: '-1m', maxDrop: '0', source: '0', allowedError: '1m', maxCap: '-1p', margin: '-1' });
+		expect(errors).toMatchObject({
+			clamp: 'The clamp current must be greater than zero.',
+			maxDrop: 'The largest forward drop must be greater than zero.',
+			source: 'The source resistance must be greater than zero.',
+			maxCap: 'The largest capacitance must be greater than zero.',
+			margin: 'The margin below the reverse rating must be zero or more.'
+		});
+		for (const m of Object.values(errors)) expect(m).not.toMatch(/[a-z][A-Z]|\[\d\]/);
+		expect(screenMessage('Give either temperatureC or temperatureRangeC: [low, high], not both and not neither.')).toBe(
+			'Give either one temperature or a range, not both and not neither.'
+		);
+		expect(screenMessage('temperatureRangeC[1] must lie between absolute zero and 1000 °C')).toBe('The highest temperature must lie between absolute zero and 1000 °C.');
 	});
 
 	test('unknown kinds and lifecycles in a hand-edited URL are dropped', () => {

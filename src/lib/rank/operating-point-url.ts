@@ -232,6 +232,34 @@ export function parseFraction(text: string): number {
 }
 
 /**
+ * The schema's API names as the ranking sentence says them. The schema's messages serve the
+ * HTTP API, whose callers know the keys; the screen shows them in its own words.
+ */
+const PATH_WORDS: [RegExp, string][] = [
+	[/\btemperatureC or temperatureRangeC: \[low, high\]/g, 'one temperature or a range'],
+	[/\btemperatureRangeC\[0\]/g, 'the lowest temperature'],
+	[/\btemperatureRangeC\[1\]/g, 'the highest temperature'],
+	[/\btemperatureRangeC must be \[low, high\] with low ≤ high/g, 'the lowest temperature must not be above the highest'],
+	[/\btemperatureC\b/g, 'the temperature'],
+	[/\bbiasV\b/g, 'the bias'],
+	[/\bclampCurrentA\b/g, 'the clamp current'],
+	[/\bmaxForwardDropV\b/g, 'the largest forward drop'],
+	[/\breverseMarginV\b/g, 'the margin below the reverse rating'],
+	[/\bsourceResistanceOhm\b/g, 'the source resistance'],
+	[/\ballowedErrorV\b/g, 'the allowed error voltage'],
+	[/\bleakageTargetA\b/g, 'the allowed leakage'],
+	[/\bmaxCapacitanceF\b/g, 'the largest capacitance']
+];
+
+/** A schema message with every API name replaced by the screen's words, as a sentence. */
+export function screenMessage(message: string): string {
+	let out = message;
+	for (const [re, words] of PATH_WORDS) out = out.replace(re, words);
+	out = out.charAt(0).toUpperCase() + out.slice(1);
+	return /[.!?]$/.test(out) ? out : `${out}.`;
+}
+
+/**
  * Parses the fields with the engine's unit parser. Returns the operating point when every
  * field is valid, and an error per field otherwise (messages say what was expected).
  */
@@ -316,7 +344,7 @@ export function parseFields(f: OpFields): { op: RankOperatingPoint | null; error
 	if (!checked.success) {
 		for (const issue of checked.error.issues) {
 			const field = PATH_FIELD[String(issue.path[0] ?? 'biasV')] ?? 'bias';
-			errors[field] ??= issue.message;
+			errors[field] ??= screenMessage(issue.message);
 		}
 		return { op: null, errors };
 	}

@@ -100,6 +100,13 @@ test('each readable file is fitted as it arrives; a bad one says why at once, in
 	// …and Fit tries again once the temperature is put right.
 	await hot.getByLabel('Temperature').fill('25 °C');
 	await expect(hot).toContainText('Understood: 25 °C');
+	// The window left out takes units too, and says at once what it cannot read.
+	await hot.getByLabel('From', { exact: true }).fill('550 mV');
+	await expect(hot.getByTestId('excludeFrom-reading')).toHaveText('Understood: 550 mV = 0.55 V');
+	await hot.getByLabel('To', { exact: true }).fill('half');
+	await expect(hot.getByTestId('excludeTo-reading')).toHaveText('Not read as a voltage: write it like −5 V or 612 mV.');
+	await hot.getByLabel('From', { exact: true }).fill('');
+	await hot.getByLabel('To', { exact: true }).fill('');
 	await hot.getByRole('button', { name: 'Fit again' }).click();
 	await expect(hot).toHaveAttribute('data-phase', 'fitted');
 	await expect(hot.getByTestId('upload-error')).toHaveCount(0);

@@ -19,7 +19,13 @@ async function personPage(browser: Browser, email: string, next: string, locale 
 }
 
 test('a project starts from the ranking with its operating point, an allowed error and a source resistance', async ({ browser }) => {
-	const page = await personPage(browser, 'designer@demo.test', '/rank?v=-5&tlo=0&thi=85&ic=1m&vf=0.7&rs=1G&verr=1m');
+	// The ranking's refusals name its fields in its words, not the API's keys.
+	const page = await personPage(browser, 'designer@demo.test', '/rank?v=-5&tlo=0&thi=85&ic=-1m&vf=0.7&rs=0&verr=1m');
+	await expect(page.locator('main')).toContainText('The clamp current must be greater than zero.');
+	await expect(page.locator('main')).toContainText('The source resistance must be greater than zero.');
+	await expect(page.locator('main')).not.toContainText(/clampCurrentA|sourceResistanceOhm|maxForwardDropV/);
+	await page.goto('/rank?v=-5&tlo=0&thi=85&ic=1m&vf=0.7&rs=1G&verr=1m');
+	await whenReady(page);
 	await expect(page.locator('[data-live="yes"]')).toBeVisible();
 	const start = page.getByRole('link', { name: 'Start a project at this operating point →' });
 	await expect(start).toHaveAttribute('href', /^\/projects\/new\?v=-5&tlo=0&thi=85&ic=1m&vf=0\.7&rs=1G&verr=1m/);
@@ -156,6 +162,11 @@ test('the shortlist reads as a person writes it, and a lead approving over misse
 	expect(rows[0].split(',')[col('kind')]).toBe('PN diode');
 	expect(rows[0].split(',')[col('leakage_target_A')]).toBe('1e-14');
 	expect(csv).not.toMatch(/\d\.\d*0000000\d/);
+	// The printable record names kinds as people read them and carries the note.
+	await lead.goto(`${projectPath}/export/record`);
+	await expect(lead.locator('main')).toContainText('Quillmark Semi · PN diode');
+	await expect(lead.locator('main')).toContainText('The 10 fA target was a typo for 10 nA');
+	await screenshotWidths(lead, 'project-record');
 	await lead.context().close();
 
 	// The mail reads as a colleague would write it.

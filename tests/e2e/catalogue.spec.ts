@@ -1,17 +1,4 @@
-import { expect, screenshot, signInAs, test } from './fixtures';
-
-const VT25 = 0.025693;
-/** A forward sweep with a little noise; the salt makes each run's file new to the catalogue. */
-function sweep(IS: number, N: number, RS: number): Buffer {
-	const salt = Math.floor(Math.random() * 900) + 100;
-	const rows = ['V (V),I (A),Range'];
-	for (let k = 0; k <= 30; k++) {
-		const i = 1e-9 * 1e6 ** (k / 30);
-		const v = N * VT25 * Math.log(i / IS + 1) + i * RS + 1e-4 * Math.sin(k * 7.1);
-		rows.push(`${v.toPrecision(6)}${k === 0 ? salt : ''},${i.toPrecision(6)},${i < 1e-8 ? '10nA' : i < 1e-6 ? '1uA' : '100uA'}`);
-	}
-	return Buffer.from(rows.join('\n') + '\n');
-}
+import { expect, forwardSweep, screenshot, signInAs, test } from './fixtures';
 
 test('a librarian adds a part, uploads two sweeps, accepts the fits and sees the curves', async ({ page }) => {
 	const number = `E2E-${Date.now().toString(36).toUpperCase()}`;
@@ -28,8 +15,8 @@ test('a librarian adds a part, uploads two sweeps, accepts the fits and sees the
 	await page.waitForLoadState('networkidle');
 	await expect(page.getByText("Stay inside the part's ratings")).toBeVisible();
 	await page.getByTestId('file-input').setInputFiles([
-		{ name: 'unit1_25C.csv', mimeType: 'text/csv', buffer: sweep(2e-15, 1.03, 4) },
-		{ name: 'unit2_25C.csv', mimeType: 'text/csv', buffer: sweep(3e-15, 1.04, 5) }
+		{ name: 'unit1_25C.csv', mimeType: 'text/csv', buffer: forwardSweep(2e-15, 1.03, 4, { ranges: true }) },
+		{ name: 'unit2_25C.csv', mimeType: 'text/csv', buffer: forwardSweep(3e-15, 1.04, 5, { ranges: true }) }
 	]);
 	const cards = page.getByTestId('intake');
 	await expect(cards).toHaveCount(2);
@@ -57,7 +44,7 @@ test('a librarian adds a part, uploads two sweeps, accepts the fits and sees the
 	// The same file again is refused, saying which run has it.
 	await page.goto(page.url() + '/upload');
 	await page.waitForLoadState('networkidle');
-	const again = sweep(2e-15, 1.03, 4);
+	const again = forwardSweep(2e-15, 1.03, 4, { ranges: true });
 	await page.getByTestId('file-input').setInputFiles([{ name: 'again.csv', mimeType: 'text/csv', buffer: again }]);
 	await expect(cards.first()).toHaveAttribute('data-phase', 'fitted');
 	await cards.first().getByRole('button', { name: 'Accept and store' }).click();

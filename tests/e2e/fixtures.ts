@@ -81,6 +81,40 @@ export async function screenshotWidths(page: Page, name: string) {
 	await page.setViewportSize({ width: 1280, height: 900 });
 }
 
+/** kT/q at 25 °C [V], from the exact SI 2019 values of k and q. */
+const VT25 = 0.025693;
+
+/**
+ * A forward sweep V = N·Vt·ln(I/IS + 1) + I·RS at 25 °C, 1 nA to 1 mA in 31 points, with
+ * 0.1 mV of ripple; a salt in the first value makes each file new to the catalogue. With
+ * `ranges`, a third column names the meter range of each point.
+ */
+export function forwardSweep(IS: number, N: number, RS: number, opts: { ranges?: boolean } = {}): Buffer {
+	const salt = Math.floor(Math.random() * 900) + 100;
+	const rows = [opts.ranges ? 'V (V),I (A),Range' : 'V (V),I (A)'];
+	for (let k = 0; k <= 30; k++) {
+		const i = 1e-9 * 1e6 ** (k / 30);
+		const v = N * VT25 * Math.log(i / IS + 1) + i * RS + 1e-4 * Math.sin(k * 7.1);
+		const range = opts.ranges ? `,${i < 1e-8 ? '10nA' : i < 1e-6 ? '1uA' : '100uA'}` : '';
+		rows.push(`${v.toPrecision(6)}${k === 0 ? salt : ''},${i.toPrecision(6)}${range}`);
+	}
+	return Buffer.from(rows.join('\n') + '\n');
+}
+
+/**
+ * Two invented diodes with given models, added through the API by a page signed in as a
+ * librarian: a quiet one (IS 2 fA, N 1.02) and a leaky one (IS 5 nA, N 1.9), by Quillmark Semi.
+ */
+export async function addQuietAndLeaky(page: Page, quiet: string, leaky: string) {
+	for (const [partNumber, model] of [
+		[quiet, { IS: 2e-15, N: 1.02, RS: 0.8 }],
+		[leaky, { IS: 5e-9, N: 1.9, RS: 0.3 }]
+	] as const) {
+		const res = await page.request.post('/api/v1/junctions', { data: { partNumber, maker: 'Quillmark Semi', kind: 'diode', model } });
+		expect(res.status(), await res.text()).toBe(201);
+	}
+}
+
 export async function screenshot(page: Page, name: string) {
 	mkdirSync(SCREENSHOTS, { recursive: true });
 	await page.screenshot({ path: `${SCREENSHOTS}/${name}.png`, fullPage: true });

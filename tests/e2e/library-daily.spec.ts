@@ -1,20 +1,7 @@
 // A librarian's everyday forms: ratings typed with prefixes and units and read back as you
 // type, the kind refused in its display names, and an upload page that fits each readable
 // file as it arrives and says at once, in words, what is wrong with the others.
-import { expect, screenshotWidths, sessionFor, test, whenReady } from './fixtures';
-
-const VT25 = 0.025693;
-/** A forward sweep with a little noise; the salt makes each file new to the catalogue. */
-function sweep(IS: number, N: number, RS: number): Buffer {
-	const salt = Math.floor(Math.random() * 900) + 100;
-	const rows = ['V (V),I (A)'];
-	for (let k = 0; k <= 30; k++) {
-		const i = 1e-9 * 1e6 ** (k / 30);
-		const v = N * VT25 * Math.log(i / IS + 1) + i * RS + 1e-4 * Math.sin(k * 7.1);
-		rows.push(`${v.toPrecision(6)}${k === 0 ? salt : ''},${i.toPrecision(6)}`);
-	}
-	return Buffer.from(rows.join('\n') + '\n');
-}
+import { expect, forwardSweep, screenshotWidths, sessionFor, test, whenReady } from './fixtures';
 
 let session: Awaited<ReturnType<import('@playwright/test').BrowserContext['storageState']>>;
 test.beforeAll(async ({ browser }) => {
@@ -68,10 +55,10 @@ test('each readable file is fitted as it arrives; a bad one says why at once, in
 	await whenReady(page);
 	await expect(page.getByText('Each readable file is fitted as it arrives')).toBeVisible();
 	await page.getByTestId('file-input').setInputFiles([
-		{ name: 'unit1_25C.csv', mimeType: 'text/csv', buffer: sweep(2e-15, 1.03, 4) },
+		{ name: 'unit1_25C.csv', mimeType: 'text/csv', buffer: forwardSweep(2e-15, 1.03, 4) },
 		{ name: 'broken.csv', mimeType: 'text/csv', buffer: Buffer.from('V (V),I (A)\n0.5,abc\nhello,world\n') },
 		{ name: 'empty.csv', mimeType: 'text/csv', buffer: Buffer.alloc(0) },
-		{ name: 'unit2_250C.csv', mimeType: 'text/csv', buffer: sweep(3e-15, 1.04, 5) }
+		{ name: 'unit2_250C.csv', mimeType: 'text/csv', buffer: forwardSweep(3e-15, 1.04, 5) }
 	]);
 	const card = (file: string) => page.locator(`[data-testid="intake"][data-file="${file}"]`);
 	// Fitted with nobody pressing Fit.

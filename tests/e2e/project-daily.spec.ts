@@ -2,7 +2,7 @@
 // with its operating point, typed quantities read back as you type, kinds and dates as a
 // person reads them, and an approval over parts that miss the requirement.
 import type { Browser, Page } from '@playwright/test';
-import { CATCHER_URL, expect, screenshotWidths, sessionFor, test, whenReady } from './fixtures';
+import { addQuietAndLeaky, CATCHER_URL, expect, screenshotWidths, sessionFor, test, whenReady } from './fixtures';
 
 const stamp = Date.now().toString(36).toUpperCase();
 const QUIET = `QV${stamp}-LL`;
@@ -86,13 +86,7 @@ test('the shortlist reads as a person writes it, and a lead approving over misse
 	test.setTimeout(180_000);
 	// Two parts, one far leakier than the target.
 	const librarian = await personPage(browser, 'librarian@demo.test', '/');
-	for (const [partNumber, model] of [
-		[QUIET, { IS: 2e-15, N: 1.02, RS: 0.8 }],
-		[LEAKY, { IS: 5e-9, N: 1.9, RS: 0.3 }]
-	] as const) {
-		const res = await librarian.request.post('/api/v1/junctions', { data: { partNumber, maker: 'Quillmark Semi', kind: 'diode', model } });
-		expect(res.status(), await res.text()).toBe(201);
-	}
+	await addQuietAndLeaky(librarian, QUIET, LEAKY);
 	await librarian.context().close();
 
 	// The designer reads dates in German, on Berlin's clock.

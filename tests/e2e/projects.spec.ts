@@ -1,5 +1,5 @@
 import type { Page } from '@playwright/test';
-import { CATCHER_URL, expect, screenshot, signInAs, test } from './fixtures';
+import { addQuietAndLeaky, CATCHER_URL, expect, screenshot, signInAs, test } from './fixtures';
 
 async function signOut(page: Page) {
 	await page.getByRole('button', { name: 'Sign out' }).click();
@@ -23,13 +23,7 @@ test('a shortlist goes from designer to lead, is sent back, resubmitted and appr
 
 	// Two parts with given models, entered by a librarian.
 	await signInAs(page, 'librarian@demo.test', '/');
-	for (const [partNumber, model] of [
-		[quiet, { IS: 2e-15, N: 1.02, RS: 0.8 }],
-		[leaky, { IS: 5e-9, N: 1.9, RS: 0.3 }]
-	] as const) {
-		const res = await page.request.post('/api/v1/junctions', { data: { partNumber, maker: 'Quillmark Semi', kind: 'diode', model } });
-		expect(res.status(), await res.text()).toBe(201);
-	}
+	await addQuietAndLeaky(page, quiet, leaky);
 	await signOut(page);
 
 	// The designer writes the requirement with SI prefixes and builds the shortlist.

@@ -1,4 +1,4 @@
-import { fail } from '@sveltejs/kit';
+import { fail, type RequestEvent } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
 import { DomainError } from '$lib/server/api';
 import * as people from '$lib/server/people';
@@ -11,6 +11,26 @@ export const load: PageServerLoad = async (event) => {
 };
 
 const gone = () => fail(404, { changeError: 'That person is not on the list any more; reload the page.' });
+
+/** Deactivating or reactivating a person: asked for first, then (confirm=1) done and said. */
+function access(kind: 'deactivate' | 'reactivate', done: (name: string) => string) {
+	return async (event: RequestEvent) => {
+		const actor = requirePermission(event, 'people:manage');
+		const parsed = personForm.safeParse(Object.fromEntries(await event.request.formData()));
+		if (!parsed.success) return fail(400, { changeError: 'Which person? Reload the page and try again.' });
+		const person = await people.findById(parsed.data.userId);
+		if (!person) return gone();
+		if (kind === 'deactivate' && person.id === actor.id) return fail(400, { changeError: 'You cannot deactivate yourself; ask another admin.' });
+		if (!parsed.data.confirm) return { confirm: { kind, userId: person.id, name: person.name } };
+		try {
+			await (kind === 'deactivate' ? people.deactivate : people.reactivate)(person.id, actor.id);
+		} catch (e) {
+			if (e instanceof DomainError) return fail(e.status, { changeError: e.message });
+			throw e;
+		}
+		return { done: done(person.name), doneFor: person.id };
+	};
+}
 
 export const actions: Actions = {
 	invite: async (event) => {
@@ -44,35 +64,6 @@ export const actions: Actions = {
 				: `${person.name} did not hold the ${role} role; nothing changed.`;
 		return { done, doneFor: userId };
 	},
-	deactivate: async (event) => {
-		const actor = requirePermission(event, 'people:manage');
-		const parsed = personForm.safeParse(Object.fromEntries(await event.request.formData()));
-		if (!parsed.success) return fail(400, { changeError: 'Which person? Reload the page and try again.' });
-		const person = await people.findById(parsed.data.userId);
-		if (!person) return gone();
-		if (person.id === actor.id) return fail(400, { changeError: 'You cannot deactivate yourself; ask another admin.' });
-		if (!parsed.data.confirm) return { confirm: { kind: 'deactivate' as const, userId: person.id, name: person.name } };
-		try {
-			await people.deactivate(person.id, actor.id);
-		} catch (e) {
-			if (e instanceof DomainError) return fail(e.status, { changeError: e.message });
-			throw e;
-		}
-		return { done: `${person.name} is deactivated: signed out everywhere, every API token revoked. Their work stays on record.`, doneFor: person.id };
-	},
-	reactivate: async (event) => {
-		const actor = requirePermission(event, 'people:manage');
-		const parsed = personForm.safeParse(Object.fromEntries(await event.request.formData()));
-		if (!parsed.success) return fail(400, { changeError: 'Which person? Reload the page and try again.' });
-		const person = await people.findById(parsed.data.userId);
-		if (!person) return gone();
-		if (!parsed.data.confirm) return { confirm: { kind: 'reactivate' as const, userId: person.id, name: person.name } };
-		try {
-			await people.reactivate(person.id, actor.id);
-		} catch (e) {
-			if (e instanceof DomainError) return fail(e.status, { changeError: e.message });
-			throw e;
-		}
-		return { done: `${person.name} can sign in again. Their old API tokens stay revoked; they can make new ones.`, doneFor: person.id };
-	}
+	deactivate: access('deactivate', (name) => `${name} is deactivated: signed out everywhere, every API token revoked. Their work stays on record.`),
+	reactivate: access('reactivate', (name) => `${name} can sign in again. Their old API tokens stay revoked; they can make new ones.`)
 };

@@ -156,6 +156,10 @@ test('the shortlist reads as a person writes it, and a lead approving over misse
 	expect(rows[0].split(',')[col('kind')]).toBe('PN diode');
 	expect(rows[0].split(',')[col('leakage_target_A')]).toBe('1e-14');
 	expect(csv).not.toMatch(/\d\.\d*0000000\d/);
+	// The model library's comments name the kind as the screens do.
+	const lib = await (await lead.request.get(`${projectPath}/export/spice`)).text();
+	expect(lib).toContain(`* ${QUIET} (Quillmark Semi, PN diode), model version`);
+	expect(lib).not.toMatch(/, diode\), model version/);
 	// The printable record names kinds as people read them and carries the note.
 	await lead.goto(`${projectPath}/export/record`);
 	await expect(lead.locator('main')).toContainText('Quillmark Semi · PN diode');

@@ -177,6 +177,7 @@ describe('shortlist and review', () => {
 		expect(cards).toHaveLength(1);
 		expect(cards[0].model.IS).toBe(2e-15);
 		expect(lib.text).toContain('not guarantees');
+		expect(lib.text).toContain(`* ${good.partNumber} (${good.maker}, PN diode), model version`);
 		const csv = await browse(`/projects/${id}/export/csv`, { as: 'lead' });
 		const [head, row, ...rest] = csv.text.trim().split('\r\n');
 		expect(head.split(',')).toContain('leakage_worst_A');

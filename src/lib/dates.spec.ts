@@ -1,5 +1,5 @@
 import { describe, expect, test } from 'vitest';
-import { dayInZone, endOfDay, formatWhen, knownTimeZone, readerFromRequest, startOfDay, zoneOffsetMinutes } from './dates';
+import { dayInZone, endOfDay, formatLastDay, formatWhen, knownTimeZone, readerFromRequest, startOfDay, zoneOffsetMinutes } from './dates';
 
 const AT = new Date('2026-12-02T06:28:00Z');
 
@@ -77,5 +77,17 @@ describe('calendar days on a zone clock', () => {
 		expect(dayInZone(lateUtc, 'Europe/Berlin')).toBe('2027-01-01');
 		expect(dayInZone(lateUtc, 'America/New_York')).toBe('2026-12-31');
 		expect(dayInZone(lateUtc, 'UTC', 90)).toBe('2027-03-31');
+	});
+});
+
+describe('the last day of a deadline', () => {
+	// Expected texts from Intl.DateTimeFormat itself (ECMA-402), the reference formatter.
+	test('names the day that ends at the instant, on the reader\'s clock', () => {
+		const reader = { locale: 'en-GB', timeZone: 'Europe/Berlin' };
+		const ends = endOfDay('2027-03-02', reader.timeZone);
+		const want = new Intl.DateTimeFormat('en-GB', { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' }).format(new Date(Date.UTC(2027, 2, 2)));
+		expect(formatLastDay(ends, reader)).toBe(want);
+		expect(formatLastDay(ends, reader)).not.toBe(formatLastDay(endOfDay('2027-03-03', reader.timeZone), reader));
+		expect(formatLastDay('not a date')).toBe('—');
 	});
 });

@@ -38,6 +38,19 @@ export function formatWhen(at: Date | string | number, reader: Reader = FALLBACK
 	return formatter(reader).format(date);
 }
 
+/** Day, abbreviated month and year: "2 Mar 2027" (en-GB). */
+const DAY_STYLE: Intl.DateTimeFormatOptions = { year: 'numeric', month: 'short', day: 'numeric' };
+
+/**
+ * The calendar day that ends at an instant (a deadline set as "the end of that day", as
+ * `endOfDay` makes it), written for a person: "2 Mar 2027" rather than "3 Mar 2027, 00:00".
+ */
+export function formatLastDay(endsAt: Date | string | number, reader: Reader = FALLBACK_READER): string {
+	const date = endsAt instanceof Date ? endsAt : new Date(endsAt);
+	if (Number.isNaN(date.getTime())) return '—';
+	return formatter(reader, DAY_STYLE).format(new Date(date.getTime() - 1));
+}
+
 /** A locale tag Intl supports, or null. */
 function supportedLocale(tag: string): string | null {
 	try {

@@ -77,13 +77,19 @@ test('a token has an end date and a copy button; deactivating its owner stops it
 	await person.getByRole('button', { name: 'Create token' }).click();
 	const token = (await person.getByTestId('new-token').innerText()).trim();
 	expect(token).toMatch(/^jct_/);
-	await expect(person.getByRole('status')).toContainText('working until');
+	// The end date reads as the last day chosen (not the midnight after it), as Intl writes that day here.
+	const lastDay = await person.evaluate(
+		(day) => new Intl.DateTimeFormat(undefined, { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' }).format(new Date(`${day}T12:00:00Z`)),
+		await last.inputValue()
+	);
+	await expect(person.getByRole('status')).toContainText(`working through ${lastDay}.`);
 	await person.getByRole('button', { name: 'Copy' }).click();
 	await expect(person.getByTestId('copy-result')).toHaveText('Copied to the clipboard.');
 	expect(await person.evaluate(() => navigator.clipboard.readText())).toBe(token);
 	const row = person.getByTestId('token').filter({ hasText: 'bench PC 7' });
 	await expect(row).toHaveAttribute('data-state', 'works');
-	await expect(row.locator('time')).toHaveCount(2); // created, works until (never used yet)
+	await expect(row.locator('time')).toHaveCount(2); // created, last day (never used yet)
+	await expect(row.locator('time').nth(1)).toHaveText(lastDay);
 	await screenshotWidths(person, 'tokens-created');
 	expect(await withToken(token)).toBe(200);
 

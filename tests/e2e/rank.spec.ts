@@ -124,7 +124,7 @@ test('a designer picks the ranking basis from the keyboard; the heading, the ord
 	await expect(page.getByRole('heading', { name: 'Ranked by statistical bound (99 % of parts, 90 % confidence)' })).toBeVisible();
 	await expect.poll(() => new URL(page.url()).searchParams.get('cov')).toBe('0.99');
 	await page.getByLabel('Fraction of parts the statistical bound covers').fill('120 %');
-	await expect(page.getByText(/coverage must lie between 0\.5 and 0\.999/)).toBeVisible();
+	await expect(page.getByText(/coverage must lie between 0\.5 and 0\.999/i)).toBeVisible();
 
 	// The part page of the widely spread part: every sample, the envelope and the bound at the reference conditions.
 	await page.goto(`/parts/${ids[2]}`);

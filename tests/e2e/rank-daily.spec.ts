@@ -11,13 +11,14 @@ async function designerPage(browser: Browser, width = 1280): Promise<Page> {
 	await sessionFor(context, DESIGNER);
 	const page = await context.newPage();
 	page.on('pageerror', (e) => console.error('page error:', e.message));
+	page.on('console', (m) => m.type() === 'error' && console.error('console:', m.text()));
 	return page;
 }
 
 /** Opens /rank and waits until the page is live (hydrated), so typing is heard. */
 async function openRank(page: Page, query: string) {
 	await page.goto(`/rank?${query}`);
-	await expect(page.locator('[data-live="yes"]')).toBeVisible({ timeout: 20_000 });
+	await expect(page.locator('[data-live="yes"]')).toBeVisible({ timeout: 45_000 });
 	await expect(page.locator('tbody tr').first()).toBeVisible();
 }
 
@@ -79,4 +80,33 @@ test('the dense list at 390 px: the page does not scroll sideways', async ({ bro
 	await openRank(page, DEFAULT_POINT);
 	expect(await sidewaysScroll(page)).toBeLessThanOrEqual(1);
 	await screenshot(page, 'rank-dense-390');
+});
+
+test('when no part meets every limit a banner says so and names what each nearest miss fails, by how much', async ({ browser }) => {
+	const page = await designerPage(browser);
+	// The stated limits met by some part: no banner.
+	await openRank(page, DEFAULT_POINT);
+	await expect(page.getByTestId('no-part-meets')).toHaveCount(0);
+	// A 150 mV drop at 1 mA: below every demo part's, Schottky diodes included.
+	await openRank(page, 'v=-5&tlo=25&thi=85&ic=1m&vf=150m');
+	const banner = page.getByTestId('no-part-meets');
+	await expect(banner).toContainText('No part meets all your limits');
+	const api = await page.request.post('/api/v1/rank', {
+		data: { biasV: -5, temperatureRangeC: [25, 85], clampCurrentA: 1e-3, maxForwardDropV: 0.15, limit: 100 }
+	});
+	const items = ((await api.json()) as { items: { partNumber: string; meetsLimits: boolean; flags: string[]; forwardDropV: { worst: number } }[] }).items;
+	expect(items.some((i) => i.meetsLimits)).toBe(false);
+	// Every part fails only the drop here, so the nearest miss is the one with the smallest worst drop.
+	const nearest = [...items].filter((i) => i.flags.filter((f) => f.includes('over')).length === 1).sort((a, b) => a.forwardDropV.worst - b.forwardDropV.worst)[0];
+	const first = banner.getByRole('listitem').first();
+	await expect(first).toContainText(nearest.partNumber);
+	// Two or three decimals, as the drop limit is stated ("drop 0.292 V > 0.15 V").
+	await expect(first).toContainText(new RegExp(`drop ${nearest.forwardDropV.worst.toFixed(2).replace('.', '\\.')}\\d? V > 0\\.15 V`));
+	await expect(banner.getByRole('listitem')).toHaveCount(3);
+	await screenshot(page, 'rank-no-part-meets-1280');
+	const narrow = await designerPage(browser, 390);
+	await openRank(narrow, 'v=-5&tlo=25&thi=85&ic=1m&vf=150m');
+	await expect(narrow.getByTestId('no-part-meets')).toBeVisible();
+	expect(await sidewaysScroll(narrow)).toBeLessThanOrEqual(1);
+	await screenshot(narrow, 'rank-no-part-meets-390');
 });

@@ -110,3 +110,25 @@ test('when no part meets every limit a banner says so and names what each neares
 	expect(await sidewaysScroll(narrow)).toBeLessThanOrEqual(1);
 	await screenshot(narrow, 'rank-no-part-meets-390');
 });
+
+test('while a field cannot be read the previous results are dimmed and say which operating point they are for', async ({ browser }) => {
+	const page = await designerPage(browser);
+	await openRank(page, DEFAULT_POINT);
+	const results = page.locator('[data-stale]');
+	await expect(results).toHaveAttribute('data-stale', 'no');
+	await expect(page.getByTestId('stale-note')).toHaveCount(0);
+	await page.getByLabel('Bias across the junction (positive is forward)').fill('minus five');
+	await expect(results).toHaveAttribute('data-stale', 'yes');
+	expect(Number(await results.evaluate((el) => getComputedStyle(el).opacity))).toBeLessThan(0.6);
+	const note = page.getByTestId('stale-note');
+	await expect(note).toContainText('Not updated');
+	await expect(note).toContainText('−5.000 V, 25 °C to 85 °C, clamping 1 mA under 0.700 V');
+	await screenshot(page, 'rank-stale-1280');
+	await page.setViewportSize({ width: 390, height: 900 });
+	await expect(note).toBeVisible();
+	await page.screenshot({ path: 'tests/e2e/screenshots/rank-stale-390.png' });
+	await page.setViewportSize({ width: 1280, height: 900 });
+	await page.getByLabel('Bias across the junction (positive is forward)').fill('-3');
+	await expect(results).toHaveAttribute('data-stale', 'no');
+	await expect(note).toHaveCount(0);
+});

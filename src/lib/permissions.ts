@@ -53,6 +53,34 @@ export function can(actor: Actor, action: Action, resource?: ReviewResource): bo
 	return true;
 }
 
+/** Each action in words, as a refusal names it ("changing the catalogue"). */
+export const ACTION_WORDS: Record<Action, string> = {
+	'catalogue:read': 'reading the catalogue',
+	'catalogue:write': 'changing the catalogue',
+	'rank:use': 'ranking parts',
+	'project:read': 'reading projects',
+	'project:create': 'starting a project',
+	'shortlist:edit': 'changing a shortlist',
+	'project:people': "changing a project's people",
+	'review:submit': 'sending a shortlist for review',
+	'review:decide': 'deciding a review',
+	'people:manage': "managing people's roles",
+	'tokens:own': 'keeping API tokens'
+};
+
+/**
+ * Why `actor` may not do `action`, in words a person reads (no permission codes): the roles
+ * it needs, or, when the role is held, that this record is not theirs to act on.
+ */
+export function refusal(actor: Actor, action: Action): string {
+	const grant = GRANTS[action];
+	const words = ACTION_WORDS[action];
+	const what = words.charAt(0).toUpperCase() + words.slice(1);
+	if (grant !== 'any-role' && !grant.some((r) => actor?.roles.includes(r))) return `${what} needs the ${grant.join(' or ')} role.`;
+	if (action === 'review:decide') return `${what} here is for the project's named lead, and never for the person who sent the shortlist.`;
+	return `${what} is not open to you here.`;
+}
+
 export function isRole(value: string): value is Role {
 	return (ROLES as readonly string[]).includes(value);
 }

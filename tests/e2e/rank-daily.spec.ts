@@ -132,3 +132,56 @@ test('while a field cannot be read the previous results are dimmed and say which
 	await expect(results).toHaveAttribute('data-stale', 'no');
 	await expect(note).toHaveCount(0);
 });
+
+test('errors under the sentence fields do not move the sentence, and name the field as the screen does', async ({ browser }) => {
+	for (const width of [1280, 390]) {
+		const page = await designerPage(browser, width);
+		await openRank(page, DEFAULT_POINT);
+		const boxes = () =>
+			page.evaluate(() =>
+				['op-tlo', 'op-thi', 'op-ic', 'op-vf', 'op-rs', 'op-cov'].map((id) => {
+					const r = document.getElementById(id)!.getBoundingClientRect();
+					return [id, Math.round(r.x), Math.round(r.y), Math.round(r.width)];
+				})
+			);
+		const before = await boxes();
+		// The low end above the high end: the temperature-order error under the low field.
+		await page.getByLabel('Lowest temperature (leave empty for one temperature)').fill('90 °C'); // as long as the "25 °C" it replaces, so the box keeps its size
+		const error = page.locator('#op-tlo-error');
+		await expect(error).toHaveText('the low end must not be above the high end');
+		const after = await boxes();
+		expect(after).toEqual(before);
+		expect(await sidewaysScroll(page)).toBeLessThanOrEqual(1);
+		await screenshot(page, `rank-field-error-${width}`);
+		// A value the schema refuses is explained with the field's name on screen, not the program's.
+		await page.getByLabel('Lowest temperature (leave empty for one temperature)').fill('25');
+		await page.getByLabel('Source resistance of the protected node').fill('0');
+		await expect(page.locator('#op-rs-error')).toHaveText('The source resistance must be greater than zero');
+		await page.getByLabel('Source resistance of the protected node').fill('');
+		await page.getByLabel('Clamp current (forward)').fill('0');
+		await expect(page.locator('#op-ic-error')).toHaveText('The clamp current must be greater than zero');
+		await expect(page.locator('body')).not.toContainText(/clampCurrentA|sourceResistanceOhm|maxForwardDropV/);
+		await page.context().close();
+	}
+});
+
+test('a clamp current above a part\'s rated forward current is flagged in words', async ({ browser }) => {
+	const page = await designerPage(browser);
+	await openRank(page, 'v=-5&tlo=25&thi=85&ic=5&vf=0.7');
+	const mark = page.locator('tbody [data-flag="over-forward-rating"]').first();
+	await expect(mark).toBeVisible();
+	await expect(mark).toContainText('clamp over forward rating'); // read out in words
+	await expect(page.getByTestId('flag-legend')).toContainText('The clamp current is above the rated forward current');
+	// No demo part is rated for 5 A: every part misses, and the banner states the rating it exceeds.
+	await expect(page.getByTestId('no-part-meets')).toContainText(/clamp 5 A > rated \d/);
+});
+
+test('a refusal names what was refused in words, without permission codes', async ({ browser }) => {
+	const page = await designerPage(browser);
+	const res = await page.goto('/parts/new');
+	expect(res?.status()).toBe(403);
+	await expect(page.getByRole('heading', { name: 'Not open to your role' })).toBeVisible();
+	await expect(page.locator('main')).toContainText('Changing the catalogue needs the librarian role.');
+	await expect(page.locator('main')).not.toContainText(/\(?[a-z]+:[a-z]+\)?/);
+	await screenshot(page, 'refusal-403-1280');
+});

@@ -220,6 +220,36 @@ const PATH_FIELD: Record<string, FieldName> = {
 };
 
 /**
+ * The schema's field names as the sentence names them, for messages a person reads
+ * ("sourceResistanceOhm must be greater than zero" → "the source resistance must be …").
+ * Longest first, so an indexed name is replaced before its stem.
+ */
+const SCREEN_NAMES: [RegExp, string][] = (
+	[
+		['temperatureRangeC[0]', 'the lowest temperature'],
+		['temperatureRangeC[1]', 'the highest temperature'],
+		['temperatureRangeC', 'the temperature range'],
+		['temperatureC', 'the highest temperature'],
+		['biasV', 'the bias'],
+		['clampCurrentA', 'the clamp current'],
+		['maxForwardDropV', 'the largest forward drop'],
+		['reverseMarginV', 'the margin below the reverse rating'],
+		['sourceResistanceOhm', 'the source resistance'],
+		['allowedErrorV', 'the allowed error voltage'],
+		['leakageTargetA', 'the allowed leakage'],
+		['maxCapacitanceF', 'the largest capacitance'],
+		['coverage', 'the coverage'],
+		['confidence', 'the confidence']
+	] as const
+).map(([key, words]) => [new RegExp(`\\b${key.replace(/[[\]]/g, '\\$&')}(?![\\w\\[])`, 'g'), words]);
+
+/** A schema message in the screen's words, starting with a capital. */
+export function screenMessage(message: string): string {
+	const text = SCREEN_NAMES.reduce((t, [re, words]) => t.replace(re, words), message);
+	return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/**
  * A fraction as a person types it: "95 %", "95" or "0.95" are all 0.95 (a number above 1
  * or with a % sign is a percentage). Rounded to 12 significant figures, so 99.9 % is 0.999.
  * @throws Error naming what was expected.
@@ -316,7 +346,7 @@ export function parseFields(f: OpFields): { op: RankOperatingPoint | null; error
 	if (!checked.success) {
 		for (const issue of checked.error.issues) {
 			const field = PATH_FIELD[String(issue.path[0] ?? 'biasV')] ?? 'bias';
-			errors[field] ??= issue.message;
+			errors[field] ??= screenMessage(issue.message);
 		}
 		return { op: null, errors };
 	}

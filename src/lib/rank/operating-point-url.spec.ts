@@ -93,7 +93,7 @@ describe('operating point ↔ query string', () => {
 
 	test('cross-field rules come back on the right field', () => {
 		const r1 = parseFields({ ...DEFAULT_FIELDS, allowedError: '1m' });
-		expect(r1.errors.allowedError).toMatch(/sourceResistanceOhm/);
+		expect(r1.errors.allowedError).toBe('An allowed error voltage needs the source resistance to turn it into a leakage.');
 		const r2 = parseFields({ ...DEFAULT_FIELDS, source: '1G', allowedError: '1m', leakage: '1p' });
 		expect(r2.errors.leakage).toMatch(/not both/);
 		const r3 = parseFields({ ...DEFAULT_FIELDS, clamp: '-1m' });

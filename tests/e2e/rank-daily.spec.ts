@@ -185,3 +185,20 @@ test('a refusal names what was refused in words, without permission codes', asyn
 	await expect(page.locator('main')).not.toContainText(/\(?[a-z]+:[a-z]+\)?/);
 	await screenshot(page, 'refusal-403-1280');
 });
+
+test('an address with float noise is rewritten in short numbers, and the screen\'s links carry them', async ({ browser }) => {
+	const page = await designerPage(browser);
+	await openRank(page, 'v=-5&tlo=25&thi=85&ic=0.0010000000000000002&vf=0.7&rs=10000000000.000002&ileak=1.0000000000000002e-14');
+	await expect.poll(() => new URL(page.url()).search).toBe('?v=-5&tlo=25&thi=85&ic=1m&vf=0.7&rs=10G&ileak=10f');
+	await page.locator('tbody input[type="checkbox"]').nth(0).check();
+	await page.locator('tbody input[type="checkbox"]').nth(1).check();
+	const hrefs = await page.locator('a[href*="v="]').evaluateAll((as) => as.map((a) => a.getAttribute('href') ?? ''));
+	expect(hrefs.length).toBeGreaterThan(1);
+	for (const h of hrefs) {
+		expect(h).toContain('ileak=10f');
+		expect(h).not.toMatch(/\d{6,}|e-\d/);
+	}
+	// The compare page's way back is short too.
+	await page.getByRole('link', { name: /Compare 2 side by side/ }).click();
+	await expect(page.getByRole('link', { name: 'Back to the ranking' })).toHaveAttribute('href', /ileak=10f/);
+});

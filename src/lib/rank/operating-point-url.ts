@@ -134,24 +134,40 @@ const PREFIXES: [string, number][] = [
 	['T', 1e12]
 ];
 
+/** A value to the 12 significant figures the sentence keeps (float noise beyond them is dropped). */
+const twelve = (v: number) => Number(v.toPrecision(12));
+
 /**
- * Shortest text that the unit parser reads back as exactly `value`, e.g. 1e-3 → "1m",
- * 1e10 → "10G", -5 → "-5". Falls back to JavaScript's shortest round-trip form.
+ * Canonical short text for a value, which the unit parser reads back as the value to 12
+ * significant figures: 1e-3 → "1m", 1e10 → "10G", -5 → "-5", and 1.0000000000000002e-14
+ * (10 fA after a multiplication) → "10f", never the float's noise. Among equally short texts
+ * the engineering form (mantissa 1…999) wins; JavaScript's own form is the fallback.
  */
 export function compactNumber(value: number, kind: QuantityKind = 'number'): string {
-	let best = String(value);
+	if (!Number.isFinite(value) || value === 0) return String(value);
+	const target = twelve(value);
+	let best = String(target);
+	let bestEngineering = false;
 	for (const [prefix, scale] of PREFIXES) {
 		const mant = value / scale;
-		for (const digits of [15, 16, 17]) {
-			const txt = String(Number(mant.toPrecision(digits))) + prefix;
+		for (const digits of [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12]) {
+			const mantissa = String(Number(mant.toPrecision(digits)));
+			if (prefix && mantissa.includes('e')) break; // "1e-24G" is no one's way of writing it
+			const txt = mantissa + prefix;
 			let back: number;
 			try {
 				back = parseQuantity(txt, kind);
 			} catch {
-				continue;
+				break;
 			}
-			if (back === value && txt.length < best.length) best = txt;
-			if (back === value) break;
+			if (twelve(back) !== target) continue;
+			// Equally short: the engineering form (1 ≤ mantissa < 1000) is the canonical one.
+			const engineering = Math.abs(mant) >= 1 && Math.abs(mant) < 1000;
+			if (txt.length < best.length || (txt.length === best.length && engineering && !bestEngineering)) {
+				best = txt;
+				bestEngineering = engineering;
+			}
+			break;
 		}
 	}
 	return best;
@@ -274,7 +290,8 @@ export function parseFields(f: OpFields): { op: RankOperatingPoint | null; error
 			return undefined;
 		}
 		try {
-			return parseQuantity(text, kind);
+			// 12 significant figures: "10f" is 10 fA, not the 1.0000000000000002e-14 that 10 × 1e-15 makes.
+			return twelve(parseQuantity(text, kind));
 		} catch (e) {
 			errors[field] = (e as Error).message;
 			return undefined;

@@ -10,22 +10,24 @@ import { projectPatchSchema } from '$lib/schemas/project-people';
 import { reviewSchema } from '$lib/schemas/projects';
 import { email } from '$lib/schemas/people';
 import { availableActions, isEditable } from '$lib/review-transitions';
-import { emptyFields, queryFromFields } from '$lib/rank/operating-point-url';
+import { compactNumber, emptyFields, queryFromFields } from '$lib/rank/operating-point-url';
 import type { RequestEvent } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
 
-/** The ranking screen's query for this requirement, written by the ranking's own URL module. */
+/** The ranking screen's query for this requirement, written by the ranking's own URL module (short numbers). */
 function rankLink(r: projects.Project['requirement']): string {
 	const f = emptyFields();
-	f.bias = String(r.biasV);
+	const n = compactNumber;
+	const celsius = (t: number) => String(Number(t.toPrecision(12)));
+	f.bias = n(r.biasV, 'voltage');
 	if (r.temperatureRangeC) {
-		f.tLo = String(r.temperatureRangeC[0]);
-		f.tHi = String(r.temperatureRangeC[1]);
-	} else if (r.temperatureC !== undefined) f.tHi = String(r.temperatureC);
-	if (r.clampCurrentA !== undefined) f.clamp = String(r.clampCurrentA);
-	if (r.maxForwardDropV !== undefined) f.maxDrop = String(r.maxForwardDropV);
-	if (r.leakageTargetA !== undefined) f.leakage = String(r.leakageTargetA);
-	if (r.sourceResistanceOhm) f.source = String(r.sourceResistanceOhm);
+		f.tLo = celsius(r.temperatureRangeC[0]);
+		f.tHi = celsius(r.temperatureRangeC[1]);
+	} else if (r.temperatureC !== undefined) f.tHi = celsius(r.temperatureC);
+	if (r.clampCurrentA !== undefined) f.clamp = n(r.clampCurrentA, 'current');
+	if (r.maxForwardDropV !== undefined) f.maxDrop = n(r.maxForwardDropV, 'voltage');
+	if (r.leakageTargetA !== undefined) f.leakage = n(r.leakageTargetA, 'current');
+	if (r.sourceResistanceOhm) f.source = n(r.sourceResistanceOhm, 'resistance');
 	return `/rank?${queryFromFields(f)}`;
 }
 

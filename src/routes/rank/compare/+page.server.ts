@@ -3,7 +3,7 @@ import { can } from '$lib/permissions';
 import { fail } from '$lib/server/http-error';
 import { predictParts, type Prediction } from '$lib/server/ranking';
 import { modelCache } from '$lib/server/model-cache';
-import { fieldsFromQuery, parseFields } from '$lib/rank/operating-point-url';
+import { fieldsFromQuery, parseFields, queryFromOperatingPoint } from '$lib/rank/operating-point-url';
 import { COMPARE_MAX } from '../limits';
 import type { PageServerLoad } from './$types';
 
@@ -25,7 +25,8 @@ export const load: PageServerLoad = async (event) => {
 		return [{ ...p, model: { ...cached.typical, material: cached.material } }];
 	});
 	const missing = ids.filter((id) => !predictions.has(id));
-	const query = new URLSearchParams(event.url.searchParams);
+	// The way back to the ranking in the short form the ranking writes.
+	const query = op ? queryFromOperatingPoint(op) : new URLSearchParams(event.url.searchParams);
 	query.delete('ids');
 	return { parts, missing, op, errors, query: query.toString(), canShortlist: can(user, 'shortlist:edit') };
 };

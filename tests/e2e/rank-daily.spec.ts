@@ -202,3 +202,43 @@ test('an address with float noise is rewritten in short numbers, and the screen\
 	await page.getByRole('link', { name: /Compare 2 side by side/ }).click();
 	await expect(page.getByRole('link', { name: 'Back to the ranking' })).toHaveAttribute('href', /ileak=10f/);
 });
+
+test('compare: columns in ranking order whatever the ticking order, the best value per row marked, the ruler numbered, the charts fitted', async ({ browser }) => {
+	const page = await designerPage(browser);
+	await openRank(page, DEFAULT_POINT);
+	const ranked = await page.locator('tbody tr').evaluateAll((trs) => trs.slice(0, 3).map((tr) => tr.getAttribute('data-part')));
+	// Ticked last-first: third, then first, then second.
+	for (const n of [2, 0, 1]) await page.locator('tbody tr').nth(n).getByRole('checkbox').check();
+	await page.getByRole('link', { name: /Compare 3 side by side/ }).click();
+	await expect(page.getByRole('heading', { name: 'Side by side' })).toBeVisible();
+	const columns = await page.locator('thead th a').allTextContents();
+	expect(columns).toEqual(ranked);
+	// The best (lowest) typical leakage is marked, and it is the lowest of the three figures shown.
+	const typicalRow = page.locator('tr', { has: page.getByRole('rowheader', { name: 'Leakage, typical' }) });
+	await expect(typicalRow.locator('[data-best="yes"]')).toHaveCount(1);
+	await expect(typicalRow.locator('[data-best="yes"]')).toContainText('best');
+	const api = await page.request.post('/api/v1/rank', { data: { biasV: -5, temperatureRangeC: [25, 85], clampCurrentA: 1e-3, maxForwardDropV: 0.7, limit: 3 } });
+	const items = ((await api.json()) as { items: { partNumber: string; leakageA: { typical: number } }[] }).items;
+	const lowest = [...items].sort((a, b) => a.leakageA.typical - b.leakageA.typical)[0];
+	const bestColumn = await typicalRow.locator('td').evaluateAll((tds) => tds.findIndex((td) => td.getAttribute('data-best') === 'yes'));
+	expect(columns[bestColumn]).toBe(lowest.partNumber);
+	// The decade ruler carries its numbers.
+	const rulerRow = page.locator('tr', { has: page.getByRole('rowheader', { name: /decade ruler/ }) });
+	await expect(rulerRow.locator('td').first()).toContainText('1 pA');
+	await expect(rulerRow.locator('td').first()).toContainText('1 nA');
+	// The leakage-against-temperature chart spans the candidates, not 100 aA to 10 mA.
+	const chart = page.getByLabel('Leakage against temperature for the leading candidates');
+	await expect(chart).toHaveAttribute('data-y-min', /.+/);
+	const [yMin, yMax] = await chart.evaluate((c) => [Number(c.dataset.yMin), Number(c.dataset.yMax)]);
+	expect(Math.log10(yMax / yMin)).toBeLessThanOrEqual(6);
+	expect(yMin).toBeGreaterThan(1e-16);
+	expect(await sidewaysScroll(page)).toBeLessThanOrEqual(1);
+	await page.waitForTimeout(300);
+	await screenshot(page, 'compare-1280');
+	const narrow = await designerPage(browser, 390);
+	await narrow.goto(page.url());
+	await expect(narrow.getByRole('heading', { name: 'Side by side' })).toBeVisible();
+	await narrow.waitForTimeout(500);
+	expect(await sidewaysScroll(narrow)).toBeLessThanOrEqual(1);
+	await screenshot(narrow, 'compare-390');
+});

@@ -242,3 +242,36 @@ test('compare: columns in ranking order whatever the ticking order, the best val
 	expect(await sidewaysScroll(narrow)).toBeLessThanOrEqual(1);
 	await screenshot(narrow, 'compare-390');
 });
+
+test('part page I–V: forward and reverse each over their own span, a colour per sample, a line style per temperature, a legend in words', async ({ browser }) => {
+	const page = await designerPage(browser);
+	const list = await page.request.get('/api/v1/junctions?q=HRB-D10');
+	const part = ((await list.json()) as { items: { id: number; partNumber: string }[] }).items.find((p) => p.partNumber === 'HRB-D10')!;
+	await page.goto(`/parts/${part.id}`);
+	const forward = page.getByTestId('iv-forward');
+	const reverse = page.getByTestId('iv-reverse');
+	await expect(forward.locator('canvas')).toBeVisible();
+	await expect(reverse.locator('canvas')).toBeVisible();
+	// Forward over the forward voltages measured (positive, under 2 V); reverse over negative ones.
+	await expect(forward.locator('figcaption')).toContainText(/Forward, \d[\d.]* m?V … \d[\d.]* m?V/);
+	await expect(reverse.locator('figcaption')).toContainText(/Reverse, −[\d.]+ m?V … −[\d.]+ m?V/);
+	const legend = page.getByTestId('iv-legend');
+	// The demo part: four samples measured at 25 °C and 85 °C.
+	const swatches = await legend.locator('span.rounded-sm').evaluateAll((els) => els.map((e) => getComputedStyle(e).backgroundColor));
+	expect(swatches.length).toBe(4);
+	expect(new Set(swatches).size).toBe(4);
+	const dashes = await legend.locator('[data-temperature] line').evaluateAll((ls) => ls.map((l) => l.getAttribute('stroke-dasharray') ?? ''));
+	expect(dashes.length).toBe(2);
+	expect(new Set(dashes).size).toBe(2);
+	await expect(legend).toContainText('Colour is the sample');
+	await expect(legend).toContainText('85 °C');
+	await page.getByTestId('iv-reverse').scrollIntoViewIfNeeded();
+	await page.waitForTimeout(1000);
+	await screenshot(page, 'part-iv-1280');
+	const narrow = await designerPage(browser, 390);
+	await narrow.goto(`/parts/${part.id}`);
+	await expect(narrow.getByTestId('iv-reverse').locator('canvas')).toBeVisible();
+	await narrow.waitForTimeout(300);
+	expect(await sidewaysScroll(narrow)).toBeLessThanOrEqual(1);
+	await screenshot(narrow, 'part-iv-390');
+});

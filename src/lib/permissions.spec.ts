@@ -1,5 +1,5 @@
 import { describe, expect, test } from 'vitest';
-import { ACTIONS, ROLES, can, type Action, type Role } from './permissions';
+import { ACTIONS, ROLES, can, type Action, type Role, refusal } from './permissions';
 
 // The intended grants, written out independently of the implementation's table.
 const EXPECTED: Record<Action, Role[] | 'all'> = {
@@ -51,5 +51,17 @@ describe('can(): deciding a review', () => {
 	for (const [name, resource, want] of cases) test(name, () => expect(can(lead, 'review:decide', resource)).toBe(want));
 	test('a designer never decides, even when named', () => {
 		expect(can(someone(['designer'], 'lead-1'), 'review:decide', { leadId: 'lead-1', submittedBy: 'x' })).toBe(false);
+	});
+});
+
+describe('refusal(): why, in words', () => {
+	test('names the role an action needs and never shows a permission code', () => {
+		for (const action of ACTIONS) {
+			const text = refusal(someone(['designer']), action);
+			expect(text).not.toMatch(/[a-z]+:[a-z]+/);
+			expect(text.length).toBeGreaterThan(10);
+		}
+		expect(refusal(someone(['designer']), 'catalogue:write')).toBe('Adding and changing parts, samples and measurement runs needs the librarian role. If your work needs it, ask an admin to grant it.');
+		expect(refusal(someone(['lead']), 'review:decide')).toMatch(/named lead/);
 	});
 });

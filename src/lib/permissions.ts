@@ -60,15 +60,6 @@ export const ACTION_WORDS: Record<Action, string> = {
 	'tokens:own': 'Keeping API tokens'
 };
 
-/** Why a person may not take an action, naming the role that would allow it. */
-export function refusalWords(action: Action): string {
-	const grant = GRANTS[action];
-	const roles = grant === 'any-role' ? null : grant.join(' or ');
-	return roles
-		? `${ACTION_WORDS[action]} needs the ${roles} role. If your work needs it, ask an admin to grant it.`
-		: `${ACTION_WORDS[action]} needs a role on the team. Ask an admin to grant you one.`;
-}
-
 /** Facts about the record that narrow a decision (only reviews need them so far). */
 export type ReviewResource = { leadId: string | null; submittedBy: string | null };
 
@@ -83,6 +74,23 @@ export function can(actor: Actor, action: Action, resource?: ReviewResource): bo
 		if (resource.submittedBy === actor.id) return false;
 	}
 	return true;
+}
+
+/**
+ * Why `actor` may not do `action`, in words a person reads (no permission codes): the role it
+ * needs, or, when the role is held, that this record is not theirs to act on.
+ */
+export function refusal(actor: Actor, action: Action): string {
+	const grant = GRANTS[action];
+	const what = ACTION_WORDS[action];
+	const roles = actor?.roles ?? [];
+	if (grant === 'any-role') {
+		if (roles.length === 0) return `${what} needs a role on the team. Ask an admin to grant you one.`;
+	} else if (!grant.some((r) => roles.includes(r))) {
+		return `${what} needs the ${grant.join(' or ')} role. If your work needs it, ask an admin to grant it.`;
+	}
+	if (action === 'review:decide') return `${what} here is for the project's named lead, and never for the person who sent the shortlist.`;
+	return `${what} is not open to you here.`;
 }
 
 export function isRole(value: string): value is Role {

@@ -97,3 +97,37 @@ export function referenceRow(
 		largestUnit
 	};
 }
+
+/** One branch of the I–V plot: its bias span [V] and each sample's model at each temperature. */
+export type IvView = { span: [number, number]; byTemperature: { temperatureC: number; curves: SampleCurve[] }[] };
+
+/** Model curves over a bias span at each temperature (121 points). */
+function branch(samples: readonly LabelledModel[], typical: JunctionModel, temperaturesC: readonly number[], lo: number, hi: number): IvView {
+	const xs = Array.from({ length: 121 }, (_, k) => lo + ((hi - lo) * k) / 120);
+	return {
+		span: [lo, hi],
+		byTemperature: temperaturesC.map((t) => ({ temperatureC: t, curves: currentAgainstBias(samples, typical, t, xs).samples }))
+	};
+}
+
+/**
+ * The part page's two I–V views: forward (bias > 0) over the forward span measured and
+ * reverse (bias < 0) over the reverse span, each sample's model at every temperature a run
+ * was measured at (25 °C when there are no runs). A branch nobody measured is null.
+ */
+export function ivViews(
+	runs: readonly { temperatureC: number; points: readonly (readonly [number, number])[] }[],
+	samples: readonly LabelledModel[],
+	typical: JunctionModel
+): { temperaturesC: number[]; forward: IvView | null; reverse: IvView | null } {
+	const temperaturesC = [...new Set(runs.map((r) => r.temperatureC))].sort((a, b) => a - b);
+	if (!temperaturesC.length) temperaturesC.push(25);
+	const vs = runs.flatMap((r) => r.points.map((p) => p[0]));
+	const fwd = vs.filter((v) => v > 0);
+	const rev = vs.filter((v) => v < 0);
+	return {
+		temperaturesC,
+		forward: fwd.length ? branch(samples, typical, temperaturesC, Math.min(...fwd), Math.max(...fwd)) : vs.length ? null : branch(samples, typical, temperaturesC, 0.2, 0.8),
+		reverse: rev.length ? branch(samples, typical, temperaturesC, Math.min(...rev), Math.max(...rev)) : vs.length ? null : branch(samples, typical, temperaturesC, -5, -0.1)
+	};
+}

@@ -1,7 +1,7 @@
 /** How the sentence shows each value once typed (SI prefixes, Unicode minus). */
 import { formatBias, formatSI, formatTemperature } from '$lib/junction';
 import { parseFields, type FieldName, type OpFields } from './operating-point-url';
-import { BASIS_LABEL, type RankBasis, type RankItem } from '$lib/schemas/rank';
+import { BASIS_LABEL, type RankBasis, type RankItem, type RankOperatingPoint } from '$lib/schemas/rank';
 
 /** Display text for a parsed field value, or null to leave the typed text alone. */
 export function displayValue(field: FieldName, value: number): string | null {
@@ -96,4 +96,22 @@ export function basisHeading(basis: RankBasis, coverage: number, confidence: num
 /** A fraction as a percentage without float noise (0.95 → "95 %", 0.999 → "99.9 %"). */
 export function percent(f: number): string {
 	return `${Number((f * 100).toPrecision(6))} %`;
+}
+
+/**
+ * An operating point in the sentence's own notation, short: "−5.000 V, 25 °C to 85 °C,
+ * clamping 1 mA under 0.700 V" (the limits the sentence states, when given).
+ */
+export function operatingPointWords(op: RankOperatingPoint): string {
+	const show = (field: FieldName, v: number) => displayValue(field, v) ?? String(v);
+	const parts = [show('bias', op.biasV)];
+	parts.push(op.temperatureRangeC ? `${show('tLo', op.temperatureRangeC[0])} to ${show('tHi', op.temperatureRangeC[1])}` : show('tHi', op.temperatureC ?? 25));
+	if (op.clampCurrentA !== undefined)
+		parts.push(`clamping ${show('clamp', op.clampCurrentA)}${op.maxForwardDropV !== undefined ? ` under ${show('maxDrop', op.maxForwardDropV)}` : ''}`);
+	if (op.sourceResistanceOhm !== undefined) parts.push(`source ${show('source', op.sourceResistanceOhm)}`);
+	if (op.allowedErrorV !== undefined) parts.push(`error at most ${show('allowedError', op.allowedErrorV)}`);
+	if (op.leakageTargetA !== undefined) parts.push(`leakage at most ${show('leakage', op.leakageTargetA)}`);
+	if (op.maxCapacitanceF !== undefined) parts.push(`capacitance at most ${show('maxCap', op.maxCapacitanceF)}`);
+	if (op.reverseMarginV) parts.push(`margin ${show('margin', op.reverseMarginV)}`);
+	return parts.join(', ');
 }

@@ -43,7 +43,8 @@ describe('operating point ↔ query string', () => {
 		expect(back.op).toEqual(op);
 	});
 
-	test('any bias, range and current round-trips bit for bit', () => {
+	test('any bias, range and current round-trips to 12 significant figures, and the query it writes is a fixed point', () => {
+		const twelve = (v: number) => Number(v.toPrecision(12));
 		fc.assert(
 			fc.property(
 				fc.double({ min: -1000, max: 1000, noNaN: true }).map((v) => (Object.is(v, -0) ? 0 : v)), // −0 V is 0 V
@@ -52,10 +53,23 @@ describe('operating point ↔ query string', () => {
 				fc.double({ min: 1e-15, max: 10, noNaN: true }),
 				(biasV, lo, span, clampCurrentA) => {
 					const op: RankOperatingPoint = { biasV, temperatureRangeC: [lo, lo + span], clampCurrentA };
-					expect(operatingPointFromQuery(queryFromOperatingPoint(op)).op).toEqual(op);
+					const query = queryFromOperatingPoint(op);
+					const back = operatingPointFromQuery(query).op!;
+					expect(back).toEqual({ ...op, biasV: twelve(biasV), clampCurrentA: twelve(clampCurrentA) });
+					expect(queryFromOperatingPoint(back).toString()).toBe(query.toString());
+					// Short: at most 12 digits and a prefix, never 17 digits of float noise.
+					const significant = (v: string) => v.replace(/e.*$/, '').replace(/[^0-9]/g, '').replace(/^0+|0+$/g, '').length;
+					for (const [, v] of query) expect(significant(v)).toBeLessThanOrEqual(12);
 				}
 			)
 		);
+	});
+
+	test('float noise from arithmetic is written as the short number a person would type', () => {
+		const noisy: RankOperatingPoint = { biasV: -5, temperatureC: 85, leakageTargetA: 10 * 1e-15, sourceResistanceOhm: 1e10, maxCapacitanceF: 33 * 1e-9 * 1e-3 };
+		expect(noisy.leakageTargetA).toBe(1.0000000000000002e-14);
+		expect(queryFromOperatingPoint(noisy).toString()).toBe('v=-5&thi=85&rs=10G&ileak=10f&cmax=33p');
+		expect(compactNumber(1e-14, 'current')).toBe('10f');
 	});
 
 	test('an empty query means the default operating point', () => {
@@ -124,15 +138,16 @@ describe('operating point ↔ query string', () => {
 		expect(queryFromFields(f).toString()).toBe('v=1&thi=25&kind=diode');
 	});
 
-	test('compact numbers are short and exact', () => {
+	test('compact numbers are short, and read back as the value to 12 significant figures', () => {
 		expect(compactNumber(1e-3, 'current')).toBe('1m');
 		expect(compactNumber(1e10, 'resistance')).toBe('10G');
 		expect(compactNumber(-5, 'voltage')).toBe('-5');
-		// The parser reads "3.3p" as the double nearest 3.3e-12, so the prefixed form is exact.
+		// 3.3 × 1e-12 is not the double nearest 3.3e-12, but it is 3.3 pF to a person.
 		expect(compactNumber(3.3e-12, 'capacitance')).toBe('3.3p');
 		expect(compactNumber(1e-14, 'current')).toBe('10f');
 		expect(compactNumber(2e-12, 'capacitance')).toBe('2p');
 		const awkward = 0.1 + 0.2;
-		expect(parseQuantity(compactNumber(awkward, 'voltage'), 'voltage')).toBe(awkward);
+		expect(compactNumber(awkward, 'voltage')).toBe('0.3');
+		expect(parseQuantity(compactNumber(1 / 3, 'voltage'), 'voltage')).toBeCloseTo(1 / 3, 12);
 	});
 });

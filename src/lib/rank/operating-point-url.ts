@@ -134,24 +134,40 @@ const PREFIXES: [string, number][] = [
 	['T', 1e12]
 ];
 
+/** A value to the 12 significant figures the sentence keeps (float noise beyond them is dropped). */
+const twelve = (v: number) => Number(v.toPrecision(12));
+
 /**
- * Shortest text that the unit parser reads back as exactly `value`, e.g. 1e-3 → "1m",
- * 1e10 → "10G", -5 → "-5". Falls back to JavaScript's shortest round-trip form.
+ * Canonical short text for a value, which the unit parser reads back as the value to 12
+ * significant figures: 1e-3 → "1m", 1e10 → "10G", -5 → "-5", and 1.0000000000000002e-14
+ * (10 fA after a multiplication) → "10f", never the float's noise. Among equally short texts
+ * the engineering form (mantissa 1…999) wins; JavaScript's own form is the fallback.
  */
 export function compactNumber(value: number, kind: QuantityKind = 'number'): string {
-	let best = String(value);
+	if (!Number.isFinite(value) || value === 0) return String(value);
+	const target = twelve(value);
+	let best = String(target);
+	let bestEngineering = false;
 	for (const [prefix, scale] of PREFIXES) {
 		const mant = value / scale;
-		for (const digits of [15, 16, 17]) {
-			const txt = String(Number(mant.toPrecision(digits))) + prefix;
+		for (const digits of [1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12]) {
+			const mantissa = String(Number(mant.toPrecision(digits)));
+			if (prefix && mantissa.includes('e')) break; // "1e-24G" is no one's way of writing it
+			const txt = mantissa + prefix;
 			let back: number;
 			try {
 				back = parseQuantity(txt, kind);
 			} catch {
-				continue;
+				break;
 			}
-			if (back === value && txt.length < best.length) best = txt;
-			if (back === value) break;
+			if (twelve(back) !== target) continue;
+			// Equally short: the engineering form (1 ≤ mantissa < 1000) is the canonical one.
+			const engineering = Math.abs(mant) >= 1 && Math.abs(mant) < 1000;
+			if (txt.length < best.length || (txt.length === best.length && engineering && !bestEngineering)) {
+				best = txt;
+				bestEngineering = engineering;
+			}
+			break;
 		}
 	}
 	return best;
@@ -161,12 +177,14 @@ export function compactNumber(value: number, kind: QuantityKind = 'number'): str
 export function fieldsFromOperatingPoint(op: RankOperatingPoint): OpFields {
 	const f = emptyFields();
 	const num = (v: number | undefined, kind: QuantityKind) => (v === undefined ? '' : compactNumber(v, kind));
+	// Kelvin round trips can leave a last-digit wobble in a stored °C; 12 figures write what was typed.
+	const celsius = (t: number) => String(Number(t.toPrecision(12)));
 	f.bias = num(op.biasV, 'voltage');
 	if (op.temperatureRangeC) {
-		f.tLo = String(op.temperatureRangeC[0]);
-		f.tHi = String(op.temperatureRangeC[1]);
+		f.tLo = celsius(op.temperatureRangeC[0]);
+		f.tHi = celsius(op.temperatureRangeC[1]);
 	} else if (op.temperatureC !== undefined) {
-		f.tHi = String(op.temperatureC);
+		f.tHi = celsius(op.temperatureC);
 	}
 	f.clamp = num(op.clampCurrentA, 'current');
 	f.maxDrop = num(op.maxForwardDropV, 'voltage');
@@ -248,7 +266,9 @@ const PATH_WORDS: [RegExp, string][] = [
 	[/\bsourceResistanceOhm\b/g, 'the source resistance'],
 	[/\ballowedErrorV\b/g, 'the allowed error voltage'],
 	[/\bleakageTargetA\b/g, 'the allowed leakage'],
-	[/\bmaxCapacitanceF\b/g, 'the largest capacitance']
+	[/\bmaxCapacitanceF\b/g, 'the largest capacitance'],
+	[/\bcoverage\b/g, 'the coverage'],
+	[/\bconfidence\b/g, 'the confidence']
 ];
 
 /** A schema message with every API name replaced by the screen's words, as a sentence. */
@@ -272,7 +292,8 @@ export function parseFields(f: OpFields): { op: RankOperatingPoint | null; error
 			return undefined;
 		}
 		try {
-			return parseQuantity(text, kind);
+			// 12 significant figures: "10f" is 10 fA, not the 1.0000000000000002e-14 that 10 × 1e-15 makes.
+			return twelve(parseQuantity(text, kind));
 		} catch (e) {
 			errors[field] = (e as Error).message;
 			return undefined;

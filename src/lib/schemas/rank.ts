@@ -175,6 +175,8 @@ export type RankItem = {
 	package: string;
 	lifecycle: RankLifecycle;
 	ratedReverseV: number | null;
+	/** Rated forward current [A], null when not rated (a clamp current above it is flagged). */
+	ratedForwardA: number | null;
 	/** Sample models behind the numbers (1 for a part with only a given model). */
 	samples: number;
 	/** Measured on our bench, or only a given model (card, datasheet): given parts rank after measured ones. */

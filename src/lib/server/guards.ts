@@ -1,5 +1,5 @@
 import { redirect, type RequestEvent } from '@sveltejs/kit';
-import { can, refusalWords, type Action, type ReviewResource } from '$lib/permissions';
+import { can, refusal, type Action, type ReviewResource } from '$lib/permissions';
 import { fail } from './http-error';
 import type { Role } from '$lib/permissions';
 
@@ -23,6 +23,6 @@ export function requireRole(event: RequestEvent, ...roles: Role[]): App.User {
 /** Signed in and allowed the action by can(). */
 export function requirePermission(event: RequestEvent, action: Action, resource?: ReviewResource): App.User {
 	const user = requireUser(event);
-	if (!can(user, action, resource)) fail(403, refusalWords(action));
+	if (!can(user, action, resource)) fail(403, refusal(user, action));
 	return user;
 }

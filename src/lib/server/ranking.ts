@@ -53,6 +53,7 @@ function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit
 		package: part.package,
 		lifecycle: part.lifecycle,
 		ratedReverseV: part.ratedReverseV,
+		ratedForwardA: part.ratedForwardA,
 		samples: row.samples,
 		evidence: row.evidence,
 		leakageA: row.leakageA,

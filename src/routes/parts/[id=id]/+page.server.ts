@@ -3,7 +3,7 @@ import * as catalogue from '$lib/server/catalogue';
 import { can } from '$lib/permissions';
 import { loadPart } from '$lib/server/model-cache';
 import { spiceBlock, spicePartOf } from '$lib/server/spice';
-import { currentAgainstBias, leakageAgainstTemperature, referenceRow } from '$lib/catalogue/sample-curves';
+import { ivViews, leakageAgainstTemperature, referenceRow } from '$lib/catalogue/sample-curves';
 import type { PageServerLoad } from './$types';
 
 const TEMPS = Array.from({ length: 34 }, (_, k) => -40 + 5 * k); // −40 … +125 °C
@@ -27,14 +27,8 @@ export const load: PageServerLoad = async (event) => {
 	const biases = [-0.1, -Math.min(10, Math.max(0.5, vr / 2))];
 	const leakage = sp ? biases.map((b) => ({ biasV: b, ...leakageAgainstTemperature(sp.samples, sp.typical, b, TEMPS) })) : [];
 	const reference = sp && sp.samples.length ? [referenceRow(sp.samples, biases[0], 25), referenceRow(sp.samples, biases[1], REFERENCE_HOT_C)] : [];
-	// Each sample's model at 25 °C over the measured voltage span.
-	let iv = null;
-	if (sp) {
-		const vs = active.flatMap((r) => r.points.map((p) => p[0]));
-		const lo = vs.length ? Math.min(...vs) : -1;
-		const hi = vs.length ? Math.max(...vs) : 0.8;
-		iv = currentAgainstBias(sp.samples, sp.typical, 25, Array.from({ length: 121 }, (_, k) => lo + ((hi - lo) * k) / 120));
-	}
+	// Forward and reverse each over their own measured span, every sample's model at every measured temperature.
+	const views = sp ? ivViews(active, sp.samples, sp.typical) : null;
 	return {
 		part: catalogue.present(part, model),
 		samples: d.samples,
@@ -46,7 +40,7 @@ export const load: PageServerLoad = async (event) => {
 		modelUnits: sp?.samples.map((s) => s.unit) ?? [],
 		leakage,
 		reference,
-		iv,
+		views,
 		card: sp ? spiceBlock(sp, { sample: 'typical' }) : null
 	};
 };

@@ -3,8 +3,10 @@ import { can } from '$lib/permissions';
 import { fail } from '$lib/server/http-error';
 import { predictParts, type Prediction } from '$lib/server/ranking';
 import { modelCache } from '$lib/server/model-cache';
-import { fieldsFromQuery, parseFields } from '$lib/rank/operating-point-url';
+import { fieldsFromQuery, parseFields, queryFromOperatingPoint } from '$lib/rank/operating-point-url';
 import { COMPARE_MAX } from '../limits';
+import { inRankOrder } from '$lib/rank/compare';
+import { DEFAULT_BASIS } from '$lib/schemas/rank';
 import type { PageServerLoad } from './$types';
 
 // 2–4 parts side by side at the operating point in the query (?ids=3,8,21&v=…).
@@ -17,15 +19,18 @@ export const load: PageServerLoad = async (event) => {
 	const { op, errors } = parseFields(fields);
 	const predictions = op ? await predictParts(ids, op) : new Map<number, Prediction>();
 	const snap = (await modelCache()).snapshot;
-	const parts = ids.flatMap((id) => {
+	let parts = ids.flatMap((id) => {
 		const p = predictions.get(id);
 		const k = snap.indexOf.get(id);
 		if (!p || k === undefined) return [];
 		const cached = snap.parts[k];
 		return [{ ...p, model: { ...cached.typical, material: cached.material } }];
 	});
+	// Ranking order, not the order of ticking.
+	parts = inRankOrder(parts, op?.basis ?? DEFAULT_BASIS);
 	const missing = ids.filter((id) => !predictions.has(id));
-	const query = new URLSearchParams(event.url.searchParams);
+	// The way back to the ranking in the short form the ranking writes.
+	const query = op ? queryFromOperatingPoint(op) : new URLSearchParams(event.url.searchParams);
 	query.delete('ids');
 	return { parts, missing, op, errors, query: query.toString(), canShortlist: can(user, 'shortlist:edit') };
 };

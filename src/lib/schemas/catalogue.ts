@@ -32,9 +32,9 @@ const tag = z.string().trim().min(1).max(40, 'A tag is at most 40 characters.');
 
 const ratings = z
 	.object({
-		reverseV: finitePositive('Rated reverse voltage').max(10_000).optional(),
-		forwardA: finitePositive('Rated forward current').max(1000).optional(),
-		junctionC: z.number().finite().min(-60).max(300, 'Rated junction temperature is in °C (−60 to 300).').optional()
+		reverseV: finitePositive('Rated reverse voltage').max(10_000, 'Rated reverse voltage is at most 10 kV.').optional(),
+		forwardA: finitePositive('Rated forward current').max(1000, 'Rated forward current is at most 1 kA.').optional(),
+		junctionC: z.number().finite().min(-60, 'Rated junction temperature is in °C (−60 to 300).').max(300, 'Rated junction temperature is in °C (−60 to 300).').optional()
 	})
 	.strict();
 

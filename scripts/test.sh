@@ -7,7 +7,7 @@ if ! claim_checkout test; then
 	echo "Another npm test is running from this checkout (it owns the test cluster and ports); wait for it to finish." >&2
 	exit 1
 fi
-ensure_debian_packages postgresql curl chromium ngspice python3-scipy fonts-dejavu-core
+ensure_debian_packages postgresql curl chromium ngspice python3-scipy python3-openpyxl fonts-dejavu-core
 trap stop_stack INT TERM EXIT
 start_stack pg-test "${TEST_PGPORT:-54339}" junctionary_test "${TEST_PORT:-3100}" \
 	"${TEST_MAIL_SMTP_PORT:-2535}" "${TEST_MAIL_HTTP_PORT:-2536}"

@@ -4,6 +4,7 @@
  * own call here; the report is written from every recorded result at the end.
  */
 import { runBrowserBenchmarks } from './browser.bench';
+import { runCampaignBenchmark } from './campaign.bench';
 import { runJunctionBenchmarks } from './junction.bench';
 import { runLoadBenchmarks } from './load';
 import { runRankingBenchmarks } from './ranking.bench';
@@ -15,6 +16,7 @@ await runSearchBenchmarks();
 if (process.env.DATABASE_URL) {
 	await runRankingBenchmarks();
 	await runBrowserBenchmarks();
+	await runCampaignBenchmark();
 	await runLoadBenchmarks();
 	const { client } = await import('../../src/lib/server/db');
 	await client.end();

@@ -6,11 +6,15 @@ export async function recordAudit(
 	tx: DbOrTx,
 	entry: { actorId: string | null; action: string; entity: string; entityId: string | number; detail?: Record<string, unknown> }
 ) {
-	await tx.insert(auditLog).values({
-		actorId: entry.actorId,
-		action: entry.action,
-		entity: entry.entity,
-		entityId: String(entry.entityId),
-		detail: entry.detail ?? {}
-	});
+	const [row] = await tx
+		.insert(auditLog)
+		.values({
+			actorId: entry.actorId,
+			action: entry.action,
+			entity: entry.entity,
+			entityId: String(entry.entityId),
+			detail: entry.detail ?? {}
+		})
+		.returning({ id: auditLog.id });
+	return row;
 }

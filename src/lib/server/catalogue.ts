@@ -36,7 +36,8 @@ function duplicatePart(maker: string, partNumber: string) {
 	return new DomainError(409, `${maker} ${partNumber} is already in the catalogue.`, [{ path: 'partNumber', message: 'this maker already has this part number' }]);
 }
 
-function rowFromInput(input: PartInput | PartPatch, kind: JunctionKind | undefined): Partial<typeof parts.$inferInsert> {
+/** The parts columns a create or patch sets (tags lower-cased, once each). */
+export function rowFromInput(input: PartInput | PartPatch, kind: JunctionKind | undefined): Partial<typeof parts.$inferInsert> {
 	const out: Partial<typeof parts.$inferInsert> = {};
 	if (input.partNumber !== undefined) out.partNumber = input.partNumber;
 	if (input.maker !== undefined) out.maker = input.maker;

@@ -271,8 +271,11 @@ export async function ingest(actor: { id: string } | null, input: IngestInput): 
 		return await db.transaction(async (tx) => {
 			let [sample] = await tx.select().from(samples).where(and(eq(samples.partId, part.id), eq(samples.unit, unit)));
 			if (!sample) {
-				[sample] = await tx.insert(samples).values({ partId: part.id, unit }).returning();
-				await recordAudit(tx, { actorId: actor?.id ?? null, action: 'sample.create', entity: 'sample', entityId: sample.id, detail: { partId: part.id, unit } });
+				// Two files of one new sample arrive together in a campaign: the first creates it,
+				// the other waits for that and uses it.
+				[sample] = await tx.insert(samples).values({ partId: part.id, unit }).onConflictDoNothing({ target: [samples.partId, samples.unit] }).returning();
+				if (sample) await recordAudit(tx, { actorId: actor?.id ?? null, action: 'sample.create', entity: 'sample', entityId: sample.id, detail: { partId: part.id, unit } });
+				else [sample] = await tx.select().from(samples).where(and(eq(samples.partId, part.id), eq(samples.unit, unit)));
 			}
 			const [run] = await tx
 				.insert(runs)

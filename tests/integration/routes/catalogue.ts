@@ -3,6 +3,7 @@ import type { RouteCase } from './types';
 // Part 1 exists in every seeded database (the demo catalogue); run 1 belongs to it.
 export const catalogueRoutes: RouteCase[] = [
 	{ route: '/catalogue', method: 'GET', path: '/catalogue', allow: 'any-role', kind: 'page' },
+	{ route: '/catalogue/export', method: 'GET', path: '/catalogue/export?format=csv', allow: 'any-role', kind: 'page' },
 	{ route: '/parts/new', method: 'GET', path: '/parts/new', allow: ['librarian'], kind: 'page' },
 	{ route: '/parts/new', method: 'POST', path: '/parts/new', allow: ['librarian'], kind: 'action', form: {} },
 	{ route: '/parts/[id=id]', method: 'GET', path: '/parts/1', allow: 'any-role', kind: 'page' },
@@ -31,5 +32,11 @@ export const catalogueRoutes: RouteCase[] = [
 	{ route: '/api/v1/junctions/[id=id]/runs/[runId=id]/withdraw', method: 'POST', path: '/api/v1/junctions/1/runs/1/withdraw', allow: ['librarian'], kind: 'api', json: {} },
 	{ route: '/api/v1/junctions/[id=id]/runs/[runId=id]/reinstate', method: 'POST', path: '/api/v1/junctions/1/runs/1/reinstate', allow: ['librarian'], kind: 'api', json: {} },
 	{ route: '/api/v1/junctions/[id=id]/runs/[runId=id]/refit', method: 'POST', path: '/api/v1/junctions/1/runs/1/refit', allow: ['librarian'], kind: 'api', json: { excludeV: [1, 0] } },
+	// Imports: an empty preview or confirm is refused with 400 and writes nothing.
+	{ route: '/parts/import', method: 'GET', path: '/parts/import', allow: ['librarian'], kind: 'page' },
+	{ route: '/parts/import', method: 'POST', path: '/parts/import?/preview', allow: ['librarian'], kind: 'action', form: {} },
+	{ route: '/parts/import', method: 'POST', path: '/parts/import?/confirm', allow: ['librarian'], kind: 'action', form: { table: '' } },
+	{ route: '/parts/import/sweeps', method: 'GET', path: '/parts/import/sweeps', allow: ['librarian'], kind: 'page' },
+	{ route: '/api/v1/junctions/import', method: 'POST', path: '/api/v1/junctions/import?dryRun=1', allow: ['librarian'], kind: 'api', json: {} },
 	{ route: '/api/v1/fit', method: 'POST', path: '/api/v1/fit', allow: 'any-role', kind: 'api', json: {} }
 ];

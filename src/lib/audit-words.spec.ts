@@ -38,6 +38,9 @@ describe('the audit log in words', () => {
 		expect(auditWords({ action: 'shortlist.added', entity: 'project', entityId: '7', detail: { partNumber: 'QV-1', note: 'quietest hot' } })).toBe(
 			'added QV-1 to the shortlist (“quietest hot”)'
 		);
+		expect(auditWords({ action: 'parts.import', entity: 'catalogue', entityId: '', detail: { created: [4, 5], updated: [9], unchanged: 3 } })).toBe(
+			'imported a parts list: 2 new parts, 1 part changed, 3 unchanged'
+		);
 	});
 
 	test('an action nobody wrote words for yet is still spelt out', () => {

@@ -21,6 +21,14 @@ type Entry = { label: string; words: (f: AuditFacts) => string };
 export const AUDIT_ACTIONS: Record<string, Entry> = {
 	'part.create': { label: 'Part added', words: (f) => `added ${str(f.detail.partNumber, 'a part')} by ${str(f.detail.maker, 'an unnamed maker')} to the catalogue` },
 	'part.update': { label: 'Part changed', words: (f) => `changed part ${f.entityId}${Array.isArray(f.detail.fields) ? ` (${f.detail.fields.join(', ')})` : ''}` },
+	'parts.import': {
+		label: 'Parts list imported',
+		words: (f) => {
+			const n = (v: unknown) => (Array.isArray(v) ? v.length : typeof v === 'number' ? v : 0); // ids stored, or a count
+			const plural = (k: number, one: string) => `${k} ${one}${k === 1 ? '' : 's'}`;
+			return `imported a parts list: ${plural(n(f.detail.created), 'new part')}, ${plural(n(f.detail.updated), 'part')} changed, ${n(f.detail.unchanged)} unchanged`;
+		}
+	},
 	'part.model-card': { label: 'SPICE card imported', words: (f) => `imported the model card ${str(f.detail.name, '')} for part ${f.entityId}` },
 	'sample.create': { label: 'Sample added', words: (f) => `added sample ${str(f.detail.unit, '')} to part ${str(f.detail.partId, '?')}` },
 	'run.ingest': {

@@ -76,7 +76,7 @@ const BAD: [string, Cell[], string, RegExp][] = [
 	['forward current absurd', ['QVL-B7', 'Quillon Vale', 'diode', '', '', '', '5 kA'], 'Forward current [mA]', /at most 1 kA/],
 	['junction temperature not a temperature', ['QVL-B8', 'Quillon Vale', 'diode', '', '', '', '', 'hot'], 'Tj (°C)', /expected a temperature/],
 	['junction temperature below absolute zero', ['QVL-B9', 'Quillon Vale', 'diode', '', '', '', '', '-300'], 'Tj (°C)', /absolute zero/],
-	['junction temperature far too hot', ['QVL-C1', 'Quillon Vale', 'diode', '', '', '', '', '450'], 'Tj (°C)', /−60 to 300/],
+	['junction temperature far too hot', ['QVL-C1', 'Quillon Vale', 'diode', '', '', '', '', '450'], 'Tj (°C)', /300 °C or less/],
 	['junction temperature in fahrenheit', ['QVL-C2', 'Quillon Vale', 'diode', '', '', '', '', '300 F'], 'Tj (°C)', /expected a temperature/],
 	['tag too long', ['QVL-C3', 'Quillon Vale', 'diode', '', '', '', '', '', 'T'.repeat(41)], 'Tags', /40 characters/],
 	['too many tags', ['QVL-C4', 'Quillon Vale', 'diode', '', '', '', '', '', Array.from({ length: 21 }, (_, k) => `t${k}`).join(',')], 'Tags', /20|too/i],

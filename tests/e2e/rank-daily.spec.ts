@@ -156,10 +156,10 @@ test('errors under the sentence fields do not move the sentence, and name the fi
 		// A value the schema refuses is explained with the field's name on screen, not the program's.
 		await page.getByLabel('Lowest temperature (leave empty for one temperature)').fill('25');
 		await page.getByLabel('Source resistance of the protected node').fill('0');
-		await expect(page.locator('#op-rs-error')).toHaveText('The source resistance must be greater than zero');
+		await expect(page.locator('#op-rs-error')).toHaveText('The source resistance must be greater than zero.');
 		await page.getByLabel('Source resistance of the protected node').fill('');
 		await page.getByLabel('Clamp current (forward)').fill('0');
-		await expect(page.locator('#op-ic-error')).toHaveText('The clamp current must be greater than zero');
+		await expect(page.locator('#op-ic-error')).toHaveText('The clamp current must be greater than zero.');
 		await expect(page.locator('body')).not.toContainText(/clampCurrentA|sourceResistanceOhm|maxForwardDropV/);
 		await page.context().close();
 	}

@@ -10,7 +10,7 @@ const stamp = Date.now().toString(36).toUpperCase();
 
 /** An ideal forward sweep V = N·Vt·ln(I/IS + 1) + I·RS, a salt in the first value making the file new. */
 function sweep(IS: number, N = 1.04, RS = 3): string {
-	const salt = Math.floor(Math.random() * 900) + 100;
+	const salt = Math.floor(Math.random() * 9e8) + 1e8; // nine digits, so two test files never meet by chance
 	const rows = ['V (V),I (A)'];
 	for (let k = 0; k <= 30; k++) {
 		const i = 1e-9 * 1e6 ** (k / 30);

@@ -90,7 +90,7 @@ const VT25 = 0.025693;
  * `ranges`, a third column names the meter range of each point.
  */
 export function forwardSweep(IS: number, N: number, RS: number, opts: { ranges?: boolean } = {}): Buffer {
-	const salt = Math.floor(Math.random() * 900) + 100;
+	const salt = Math.floor(Math.random() * 9e8) + 1e8; // nine digits, so two test files never meet by chance
 	const rows = [opts.ranges ? 'V (V),I (A),Range' : 'V (V),I (A)'];
 	for (let k = 0; k <= 30; k++) {
 		const i = 1e-9 * 1e6 ** (k / 30);

@@ -119,7 +119,8 @@ test('while a field cannot be read the previous results are dimmed and say which
 	await expect(page.getByTestId('stale-note')).toHaveCount(0);
 	await page.getByLabel('Bias across the junction (positive is forward)').fill('minus five');
 	await expect(results).toHaveAttribute('data-stale', 'yes');
-	expect(Number(await results.evaluate((el) => getComputedStyle(el).opacity))).toBeLessThan(0.6);
+	// The dimming fades in, so the opacity is polled rather than read once mid-transition.
+	await expect.poll(async () => Number(await results.evaluate((el) => getComputedStyle(el).opacity))).toBeLessThan(0.6);
 	const note = page.getByTestId('stale-note');
 	await expect(note).toContainText('Not updated');
 	await expect(note).toContainText('−5.000 V, 25 °C to 85 °C, clamping 1 mA under 0.700 V');

@@ -9,8 +9,9 @@ export function forwardCsv(opts: { IS?: number; N?: number; RS?: number; from?: 
 	const { IS = 1e-14, N = 1.05, RS = 2, from = 1e-9, to = 1e-3, steps = 25, header = 'V (V),I (A)' } = opts;
 	const lines = [header];
 	// A few random digits past the 7th in the first voltage make every file's bytes (and
-	// SHA-256) new, so reruns are not refused as duplicates; the change is below 1 nV.
-	const salt = String(Math.floor(Math.random() * 900) + 100);
+	// SHA-256) new, so reruns are not refused as duplicates; the change is below 1 nV. Nine
+	// digits: with three, two of the suite's many stored sweeps met now and then (a 409).
+	const salt = String(Math.floor(Math.random() * 9e8) + 1e8);
 	for (let k = 0; k <= steps; k++) {
 		const i = from * (to / from) ** (k / steps);
 		const v = N * VT25 * Math.log(i / IS + 1) + i * RS;

@@ -29,7 +29,12 @@ npx vitest run --project unit --reporter=default --reporter=json --outputFile="$
 
 log "building and starting the app"
 # Its own build folder: a running npm start (or benchmark) keeps its files.
-start_app "$DATA/builds/test" "$DATA/test-server.log" || status=1
+# Without a built, running app every later test would fail for that one reason: stop here.
+if ! start_app "$DATA/builds/test" "$DATA/test-server.log"; then
+	echo "The app did not build or start (see above and $DATA/test-server.log); the remaining tests were not run." >&2
+	node scripts/test-summary.mjs "$RESULTS" || true
+	exit 1
+fi
 
 log "integration tests (PostgreSQL on :$PGPORT, app on :$PORT)"
 npx vitest run --project integration --reporter=default --reporter=json --outputFile="$RESULTS/integration.json" || status=1

@@ -9,6 +9,7 @@ export {
 	parseCurrent,
 	parseResistance,
 	parseCapacitance,
+	parseFrequency,
 	parseTemperature,
 	formatSI,
 	formatBias,

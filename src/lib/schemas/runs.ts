@@ -1,7 +1,7 @@
 // What a librarian sends to put a stored run right: the API's JSON bodies and the run
 // page's forms (typed values with SI prefixes) arrive at the same schemas.
 import { z } from 'zod';
-import { parseTemperature, parseVoltage } from '$lib/junction/units';
+import { parseCapacitance, parseTemperature, parseVoltage } from '$lib/junction/units';
 import { sampleInput, temperatureC } from './catalogue';
 
 const reason = (required: string) => z.string({ message: required }).trim().min(1, required).max(1000, 'Keep the reason under 1000 characters.');
@@ -17,7 +17,10 @@ export const excludeWindow = z
 	})
 	.refine(([lo, hi]) => lo < hi, { message: 'The excluded window must start below where it ends.' });
 
-export const refitSchema = z.object({ excludeV: excludeWindow.nullable().optional(), reason: optionalReason }).strict();
+/** C–V runs: the stray (fixture) capacitance subtracted before fitting [F]. */
+const stray = z.number().finite('strayCapacitanceF must be a finite capacitance.').min(0, 'The stray capacitance is zero or more.').lt(1e-6, 'The stray capacitance is below 1 µF.');
+
+export const refitSchema = z.object({ excludeV: excludeWindow.nullable().optional(), strayCapacitanceF: stray.optional(), reason: optionalReason }).strict();
 
 export const correctSchema = z
 	.object({ sample: sampleInput.shape.unit.optional(), temperatureC: temperatureC.optional(), reason: optionalReason })
@@ -44,16 +47,17 @@ function firstIssues(e: z.ZodError, fieldOf: Record<string, string>, errors: Fie
 	for (const i of e.issues) errors[fieldOf[String(i.path[0])] ?? 'form'] ??= i.message;
 }
 
-/** The re-fit form: "from" and "to" as typed ("-0.2 V", "350m"), both or neither. */
-export function refitFromForm(v: { fromV: string; toV: string; reason: string }): { input?: RefitInput; errors: FieldErrors } {
+/** The re-fit form: "from" and "to" as typed ("-0.2 V", "350m"), both or neither; a C–V run's stray capacitance ("0.4 pF"). */
+export function refitFromForm(v: { fromV: string; toV: string; reason: string; stray?: string }): { input?: RefitInput; errors: FieldErrors } {
 	const errors: FieldErrors = {};
 	const lo = typed(v.fromV, parseVoltage, 'fromV', errors);
 	const hi = typed(v.toV, parseVoltage, 'toV', errors);
+	const strayF = typed(v.stray ?? '', parseCapacitance, 'stray', errors);
 	if ((lo === undefined) !== (hi === undefined) && !errors.fromV && !errors.toV) errors[lo === undefined ? 'fromV' : 'toV'] = 'Give both ends of the window, or neither to fit every point.';
 	if (Object.keys(errors).length) return { errors };
-	const r = refitSchema.safeParse({ excludeV: lo !== undefined && hi !== undefined ? [lo, hi] : null, reason: v.reason });
+	const r = refitSchema.safeParse({ excludeV: lo !== undefined && hi !== undefined ? [lo, hi] : null, reason: v.reason, ...(strayF !== undefined ? { strayCapacitanceF: strayF } : {}) });
 	if (!r.success) {
-		firstIssues(r.error, { excludeV: 'toV', reason: 'reason' }, errors);
+		firstIssues(r.error, { excludeV: 'toV', reason: 'reason', strayCapacitanceF: 'stray' }, errors);
 		return { errors };
 	}
 	return { input: r.data, errors };

@@ -3,7 +3,7 @@
 // transaction that rebuilds the part's model (part-models.ts), which then carries it into
 // every sample model so rankings, limits and the protected node all use the same values.
 import { and, asc, eq, isNull } from 'drizzle-orm';
-import { SPICE_DEFAULTS } from '$lib/junction';
+import { median, SPICE_DEFAULTS } from '$lib/junction';
 import { capacitanceAt, measuredCapacitance, type CapacitanceModel, type PartCapacitance, type SampleCapacitance } from '$lib/catalogue/capacitance';
 import type { DbOrTx } from './db';
 import { fits, partCapacitance, runs, samples, type StoredModel } from './db/schema';
@@ -40,11 +40,13 @@ function givenCapacitance(given: StoredModel | null): PartCapacitance | null {
 
 /**
  * Writes (or removes) the part's capacitance row and returns it. Measured parameters are
- * stated at `tnomC`, the TNOM of the part's Shockley model (SPICE keeps one TNOM per card).
+ * stated at `tnomC`, the TNOM of the part's Shockley model (SPICE keeps one TNOM per card);
+ * without one (null), at the median temperature of the C–V runs, so nothing is scaled.
  */
-export async function rebuildPartCapacitance(tx: DbOrTx, partId: number, given: StoredModel | null, tnomC: number): Promise<PartCapacitance | null> {
+export async function rebuildPartCapacitance(tx: DbOrTx, partId: number, given: StoredModel | null, tnomC: number | null): Promise<PartCapacitance | null> {
 	const measured = await sampleFits(tx, partId);
-	const cap = measured.length ? measuredCapacitance(measured, tnomC) : givenCapacitance(given);
+	const at = (s: SampleCapacitance[]) => tnomC ?? Math.round(median(s.map((x) => x.temperatureC)) * 100) / 100;
+	const cap = measured.length ? measuredCapacitance(measured, at(measured)) : givenCapacitance(given);
 	if (!cap) {
 		await tx.delete(partCapacitance).where(eq(partCapacitance.partId, partId));
 		return null;

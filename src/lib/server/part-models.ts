@@ -106,7 +106,7 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 	const material = part.material as Material;
 
 	if (rows.length === 0) {
-		const cap = await rebuildPartCapacitance(tx, partId, part.givenModel, part.givenModel?.TNOM ?? NOMINAL_C);
+		const cap = await rebuildPartCapacitance(tx, partId, part.givenModel, part.givenModel ? (part.givenModel.TNOM ?? NOMINAL_C) : null);
 		if (!part.givenModel) {
 			await tx.delete(partModels).where(eq(partModels.partId, partId));
 			await notifyModelChanged(tx, partId);

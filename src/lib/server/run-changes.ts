@@ -136,7 +136,8 @@ function fileTemperatureColumn(c: Loaded, temperatureC: number): string | undefi
 export function refit(actor: Who, partId: number, runId: number, input: { excludeV: [number, number] | null; reason: string; strayCapacitanceF?: number }) {
 	return amend(actor, partId, runId, 'refit', (c) => {
 		const fit = fitStored(c, { temperatureC: c.run.temperatureC, excludedV: input.excludeV, strayCapacitanceF: input.strayCapacitanceF });
-		const stray = input.strayCapacitanceF !== undefined ? { from: { strayCapacitanceF: c.fit?.strayCapacitanceF ?? null }, to: { strayCapacitanceF: input.strayCapacitanceF } } : null;
+		const before = c.fit?.strayCapacitanceF ?? null;
+		const stray = input.strayCapacitanceF !== undefined && input.strayCapacitanceF !== before ? { from: { strayCapacitanceF: before }, to: { strayCapacitanceF: input.strayCapacitanceF } } : null;
 		return {
 			fit: { fit, cause: 'refit', note: input.reason },
 			audit: {

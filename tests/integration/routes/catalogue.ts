@@ -31,5 +31,6 @@ export const catalogueRoutes: RouteCase[] = [
 	{ route: '/api/v1/junctions/[id=id]/runs/[runId=id]/withdraw', method: 'POST', path: '/api/v1/junctions/1/runs/1/withdraw', allow: ['librarian'], kind: 'api', json: {} },
 	{ route: '/api/v1/junctions/[id=id]/runs/[runId=id]/reinstate', method: 'POST', path: '/api/v1/junctions/1/runs/1/reinstate', allow: ['librarian'], kind: 'api', json: {} },
 	{ route: '/api/v1/junctions/[id=id]/runs/[runId=id]/refit', method: 'POST', path: '/api/v1/junctions/1/runs/1/refit', allow: ['librarian'], kind: 'api', json: { excludeV: [1, 0] } },
-	{ route: '/api/v1/fit', method: 'POST', path: '/api/v1/fit', allow: 'any-role', kind: 'api', json: {} }
+	{ route: '/api/v1/fit', method: 'POST', path: '/api/v1/fit', allow: 'any-role', kind: 'api', json: {} },
+	{ route: '/api/v1/fit/capacitance', method: 'POST', path: '/api/v1/fit/capacitance', allow: 'any-role', kind: 'api', json: {} }
 ];

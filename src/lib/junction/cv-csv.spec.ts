@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { parseCapacitanceCsv, sweepKindOf } from './cv-csv';
 import { SweepError } from './errors';
 import { expectRelClose } from './test-helpers';
@@ -128,5 +129,23 @@ describe('C–V CSV: malformed files', () => {
 
 	it('needs a temperature when the file has none', () => {
 		expect(issuesOf(GOOD, {})[0].message).toMatch(/no temperature column/);
+	});
+});
+
+describe('C–V CSV: any text', () => {
+	it('gives a sweep or a SweepError naming what is wrong, never another exception', () => {
+		const line = fc.oneof(fc.string(), fc.tuple(fc.double(), fc.double()).map(([v, c]) => `${v},${c}`), fc.constantFrom('V (V),C (pF)', 'VR;Cp [nF];Freq (kHz)', '-1,2', '0;3,5;1', ',,'));
+		fc.assert(
+			fc.property(fc.array(line, { maxLength: 25 }), (lines) => {
+				try {
+					const s = parseCapacitanceCsv(lines.join('\n'), { temperatureC: 25 });
+					for (const r of s.runs) for (const c of r.capacitanceF) expect(c).toBeGreaterThan(0);
+				} catch (e) {
+					expect(e).toBeInstanceOf(SweepError);
+					expect((e as SweepError).issues.length).toBeGreaterThan(0);
+				}
+			}),
+			{ numRuns: 300, seed: 15 }
+		);
 	});
 });

@@ -4,7 +4,7 @@
 // state, a sample or the given model.
 import { and, asc, eq, isNull, sql } from 'drizzle-orm';
 import { median } from 'simple-statistics';
-import { db, type DbOrTx } from './db';
+import type { DbOrTx } from './db';
 import { fits, partModels, parts, runs, samples, type FitQuality, type FitRange, type StoredModel, type SweepDirection } from './db/schema';
 import { notifyModelChanged } from './model-events';
 import { currentMagnitude, LEAKAGE_PROBE } from '$lib/catalogue/models';
@@ -85,11 +85,6 @@ export async function backfillSampleUnits(tx: DbOrTx): Promise<number> {
 	return stale.length;
 }
 
-/** `backfillSampleUnits` in one transaction on the app's pool (server start, the migrate script). */
-export async function fillSampleUnits(): Promise<number> {
-	return db.transaction((tx) => backfillSampleUnits(tx));
-}
-
 /**
  * Writes (or removes) the part_models row and bumps parts.modelVersion, then announces
  * the change. Returns the new version, or null when the part has no model at all.
@@ -153,4 +148,35 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 	await tx.insert(partModels).values({ partId, ...row }).onConflictDoUpdate({ target: partModels.partId, set: row });
 	await notifyModelChanged(tx, partId);
 	return version;
+}
+
+/**
+ * Rebuilds the parts stored before capacitance was kept: those with a card's CJO, or with
+ * active C–V runs, but no part_capacitance row. Returns how many it rebuilt.
+ */
+export async function backfillCapacitance(tx: DbOrTx): Promise<number> {
+	const stale = await tx
+		.select({ id: parts.id })
+		.from(parts)
+		.where(
+			sql`not exists (select 1 from part_capacitance c where c.part_id = ${parts.id})
+				and (coalesce((${parts.givenModel}->>'CJO')::float8, 0) > 0
+					or exists (select 1 from runs r where r.part_id = ${parts.id} and r.measurement = 'cv' and r.state = 'active'))`
+		);
+	for (const { id } of stale) await rebuildPartModel(tx, id);
+	return stale.length;
+}
+
+/** Parts filled in after the migrations by `fillAfterMigrations`, per step. */
+export type MigrationFills = { capacitance: number; sampleUnits: number };
+
+/**
+ * What the migrations leave to the app's own code, in the caller's transaction: parts stored
+ * before their capacitance was kept are rebuilt once (which also stores their sample units),
+ * then measured parts still without sample units get them.
+ */
+export async function fillAfterMigrations(tx: DbOrTx): Promise<MigrationFills> {
+	const capacitance = await backfillCapacitance(tx);
+	const sampleUnits = await backfillSampleUnits(tx);
+	return { capacitance, sampleUnits };
 }

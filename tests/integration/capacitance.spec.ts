@@ -199,11 +199,16 @@ describe('C–V runs stored for a part', () => {
 		// the card's TNOM (27 °C, SPICE's default) to the fit's 25 °C by SPICE's CJO scaling: under 1 %.
 		expect(Math.abs(carded.model.typical.CJO / 5e-12 - 1)).toBeLessThan(0.01);
 		expect(carded.model.typical.TNOM).toBe(25);
+		// The ranking shows the card's capacitance and says where it came from.
+		const fromCard = depletion(carded.model.typical, -2);
+		expect(await rankedCapacitance(p.partNumber, fromCard)).toBeCloseTo(fromCard, 20);
+		expect((await rank(p.partNumber)).flags).toContain('capacitance-from-card');
 		await csvRun(p.id, 'sample=U1&temperatureC=25', cvCsv({ ...TRUTH }));
 		const measured = await part(p.id);
 		expect(measured.capacitance.source).toBe('measured');
 		expect(measured.flags.map((f: { code: string }) => f.code)).not.toContain('capacitance-from-card');
 		expect(await rankedCapacitance(p.partNumber, depletion(measured.capacitance.typical, -2))).toBeCloseTo(depletion(measured.capacitance.typical, -2), 20);
+		expect((await rank(p.partNumber)).flags).not.toContain('capacitance-from-card');
 	});
 
 	test('a C–V file sent as an I–V sweep is refused with the way to send it, writing nothing', async () => {

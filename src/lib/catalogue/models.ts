@@ -55,9 +55,6 @@ export function currentMagnitude(stored: StoredModel, material: Material, biasV:
 	}
 }
 
-/** Why a part's capacitance is less certain when no C–V sweep backs it. */
-export const CAPACITANCE_FROM_CARD = 'Capacitance from a datasheet card: no C–V sweep of this part was measured, so CJO, VJ and M are the card’s.';
-
 export type PartFacts = {
 	kind: JunctionKind;
 	material: Material;
@@ -82,7 +79,7 @@ export function partFlags(p: PartFacts): { code: string; text: string }[] {
 	if (p.hasModel && !p.reverseMeasured)
 		flags.push({ code: 'reverse-not-measured', text: FLAG_WORDS['reverse-not-measured'].long });
 	if (p.capacitanceSource === 'given')
-		flags.push({ code: 'capacitance-from-card', text: CAPACITANCE_FROM_CARD });
+		flags.push({ code: 'capacitance-from-card', text: FLAG_WORDS['capacitance-from-card'].long });
 	if (p.isMeasured && p.sampleCount < 3)
 		flags.push({
 			code: 'few-samples',

@@ -9,6 +9,7 @@ import { and, desc, eq } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { auditLog, fits, partCapacitance, runs, samples } from '$lib/server/db/schema';
 import * as people from '$lib/server/people';
+import { runNgspiceOp } from '../reference/ngspice';
 import { api, unique } from './helpers';
 import { cvCsv, depletion, forwardCsv } from './catalogue-fixtures';
 
@@ -166,6 +167,26 @@ describe('C–V runs stored for a part', () => {
 		expect(after.capacitance.typical.CJO / TRUTH.CJO).toBeCloseTo(1, 5);
 		const alone = depletion(after.capacitance.typical, -2);
 		expect(await rankedCapacitance(p.partNumber, alone)).toBeCloseTo(alone, 20);
+	});
+
+	test('the SPICE card of a part carries the measured CJO, VJ and M: ngspice gives the capacitance the ranking shows', async () => {
+		const p = await newPart();
+		await csvRun(p.id, 'sample=U1&temperatureC=25', forwardCsv());
+		await csvRun(p.id, 'sample=U1&temperatureC=25', cvCsv({ ...TRUTH }));
+		await csvRun(p.id, 'sample=U2&temperatureC=25', cvCsv({ ...TRUTH, CJO: 3.6e-12, M: 0.38 }));
+		const cap = (await part(p.id)).capacitance.typical;
+		const want = depletion(cap, -2);
+		expect(await rankedCapacitance(p.partNumber, want)).toBeCloseTo(want, 20);
+		const card = await api('GET', `/parts/${p.id}/spice?sim=1`, { as: 'designer' });
+		expect(card.status).toBe(200);
+		const text = card.body as string;
+		expect(text).toMatch(/CJO=/);
+		const name = /^\.model\s+(\S+)/im.exec(text)?.[1];
+		expect(name, text).toBeTruthy();
+		// ngspice 39's junction capacitance (@d[cd], depletion part: TT = 0) at −2 V and the card's
+		// own TNOM of 25 °C, so no temperature scaling: the card's digits are all that can differ.
+		const ng = runNgspiceOp({ netlist: [text, 'v1 a 0 dc -2', `d1 a 0 ${name} temp=25`].join('\n'), prints: ['@d1[cd]'] });
+		expect(Math.abs((ng.get('@d1[cd]') as number) / want - 1)).toBeLessThan(1e-6);
 	});
 
 	test('a re-fit may change the stray capacitance, a correction the sample; each is a new fit version', async () => {

@@ -177,16 +177,19 @@ describe('C–V runs stored for a part', () => {
 		const cap = (await part(p.id)).capacitance.typical;
 		const want = depletion(cap, -2);
 		expect(await rankedCapacitance(p.partNumber, want)).toBeCloseTo(want, 20);
-		const card = await api('GET', `/parts/${p.id}/spice?sim=1`, { as: 'designer' });
+		const card = await api('GET', `/api/v1/junctions/${p.id}/spice`, { as: 'designer' });
 		expect(card.status).toBe(200);
 		const text = card.body as string;
 		expect(text).toMatch(/CJO=/);
-		const name = /^\.model\s+(\S+)/im.exec(text)?.[1];
-		expect(name, text).toBeTruthy();
+		// The block is a `.subckt NAME anode cathode` around its diode D1, or a plain diode `.model`.
+		const sub = /^\.subckt\s+(\S+)/im.exec(text)?.[1];
+		const model = /^\.model\s+(\S+)\s+D/im.exec(text)?.[1];
+		expect(sub ?? model, text).toBeTruthy();
+		const [device, probe] = sub ? [`x1 a 0 ${sub}`, '@d.x1.d1[cd]'] : [`d1 a 0 ${model}`, '@d1[cd]'];
 		// ngspice 39's junction capacitance (@d[cd], depletion part: TT = 0) at −2 V and the card's
 		// own TNOM of 25 °C, so no temperature scaling: the card's digits are all that can differ.
-		const ng = runNgspiceOp({ netlist: [text, 'v1 a 0 dc -2', `d1 a 0 ${name} temp=25`].join('\n'), prints: ['@d1[cd]'] });
-		expect(Math.abs((ng.get('@d1[cd]') as number) / want - 1)).toBeLessThan(1e-6);
+		const ng = runNgspiceOp({ netlist: [text, '.temp 25', 'v1 a 0 dc -2', device].join('\n'), prints: [probe] });
+		expect(Math.abs((ng.get(probe) as number) / want - 1)).toBeLessThan(1e-6);
 	});
 
 	test('a re-fit may change the stray capacitance, a correction the sample; each is a new fit version', async () => {

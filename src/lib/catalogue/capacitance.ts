@@ -1,7 +1,8 @@
 // What the catalogue keeps of capacitance measurements: the stored shape of a C–V fit, the
 // part's capacitance (median over its samples' C–V fits, or a given card's), and the
 // curves screens draw. Importable by browser code; the Drizzle schema reads these types.
-import { depletionCapacitanceAt, junctionPotentialAt, median } from '../junction';
+import { median } from 'simple-statistics';
+import { depletionCapacitanceAt, junctionPotentialAt } from '../junction';
 
 /** Which kind of sweep a run holds: current against voltage, or capacitance against voltage. */
 export const MEASUREMENTS = ['iv', 'cv'] as const;

@@ -5,7 +5,7 @@
  * (C–V) alike; `Quantity` names what is merged in the messages.
  */
 import type { DataIssue } from './errors';
-import { median } from './median';
+import { median } from 'simple-statistics';
 
 /** What the merged value is, for messages: "current" in "A". */
 export interface Quantity {

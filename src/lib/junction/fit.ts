@@ -17,7 +17,7 @@ import { SI_2019, celsiusToKelvin, type PhysicalConstants } from './constants';
 import { canonicalMaterial, createModel, MATERIAL_DEFAULTS, type JunctionMaterial, type JunctionModel } from './model';
 import { FitError, type DataIssue } from './errors';
 import { invert, leastSquares, tQuantile975 } from './linalg';
-import { median } from './median';
+import { median } from 'simple-statistics';
 import { parseSweepCsv, type ParsedSweep, type SweepOptions, type SweepRun } from './csv';
 
 export interface FitOptions {

@@ -48,7 +48,6 @@ export type { ParsedCapacitanceSweep, CapacitanceRun } from './cv-csv';
 export { fitSweep, fitSweepCsv } from './fit';
 export { fitCapacitance, fitCapacitanceCsv, POOR_CV_FIT_RELATIVE } from './cv-fit';
 export type { CapacitanceFitResult, CapacitanceFitOptions } from './cv-fit';
-export { median } from './median';
 export type { FitResult, FitOptions, Interval } from './fit';
 export { ModelTable } from './model-table';
 export {

@@ -3,7 +3,8 @@
 // transaction that rebuilds the part's model (part-models.ts), which then carries it into
 // every sample model so rankings, limits and the protected node all use the same values.
 import { and, asc, eq, isNull } from 'drizzle-orm';
-import { median, SPICE_DEFAULTS } from '$lib/junction';
+import { median } from 'simple-statistics';
+import { SPICE_DEFAULTS } from '$lib/junction';
 import { capacitanceAt, measuredCapacitance, type CapacitanceModel, type PartCapacitance, type SampleCapacitance } from '$lib/catalogue/capacitance';
 import type { DbOrTx } from './db';
 import { fits, partCapacitance, runs, samples, type StoredModel } from './db/schema';

@@ -7,7 +7,6 @@ import { asJsonApiError } from '$lib/server/api-errors';
 import { client } from '$lib/server/db';
 import { printableUrl } from '$lib/server/db/locate';
 import { applyMigrations } from '$lib/server/db/migrate';
-import { fillSampleUnits } from '$lib/server/part-models';
 import { isCrossSiteFormWrite } from '$lib/server/csrf';
 import { returnPath } from '$lib/return-path';
 import { DEMO_BAND, isDemo, startRefusal } from '$lib/server/deployment';
@@ -31,9 +30,8 @@ export const init: ServerInit = async () => {
 	}
 	if (process.env.DATABASE_URL && process.env.MIGRATE_ON_START !== '0') {
 		try {
+			// Also fills in what a migration's new column or table needs from the app's own code.
 			await applyMigrations(process.env.DATABASE_URL);
-			// Data a migration's new column needs from the app's own code (models stored before it).
-			await fillSampleUnits();
 		} catch (e) {
 			const reason = e instanceof Error ? e.message : String(e);
 			refuseToStart(`Junctionary could not apply its database migrations to ${printableUrl(process.env.DATABASE_URL)}: ${reason}`);

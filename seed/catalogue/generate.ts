@@ -11,8 +11,9 @@ import { engineMaterial } from '../../src/lib/catalogue/models';
 import { DEFAULT_MATERIAL } from '../../src/lib/catalogue/vocabulary';
 import { DEMO_PARTS, type DemoPart } from './parts';
 import { gaussian, mulberry32 } from '../../src/lib/random';
+import { writeCapacitanceSweeps, type CvManifestEntry } from './cv-sweeps';
 
-export type ManifestEntry = { file: string; part: string; sample: string; lot: string; dateCode: string; temperatureC: number };
+export type ManifestEntry = { file: string; part: string; sample: string; lot: string; dateCode: string; temperatureC: number } | CvManifestEntry;
 
 const DIR = new URL('./files/', import.meta.url).pathname;
 
@@ -80,6 +81,11 @@ function unitTruth(p: DemoPart) {
 	};
 }
 
+/** Invented lot and date code of a part's sample s, the same for its I–V and C–V files. */
+function lotOf(p: DemoPart, s: number) {
+	return { lot: `L${(p.key.length * 7 + s) % 9}${String.fromCharCode(65 + (s % 3))}`, dateCode: `2${3 + (s % 2)}${String(10 + ((s * 7) % 40)).padStart(2, '0')}` };
+}
+
 export function generate(): ManifestEntry[] {
 	mkdirSync(DIR, { recursive: true });
 	for (const f of readdirSync(DIR)) if (f.endsWith('.csv') || f === 'manifest.json') rmSync(DIR + f);
@@ -91,8 +97,7 @@ export function generate(): ManifestEntry[] {
 			const t = unitTruth(p);
 			const model = createModel({ ...t, EG: p.truth.EG, TNOM: 25 }, engineMaterial(material));
 			const unit = `U${s}`;
-			const lot = `L${(p.key.length * 7 + s) % 9}${String.fromCharCode(65 + (s % 3))}`;
-			const dateCode = `2${3 + (s % 2)}${String(10 + ((s * 7) % 40)).padStart(2, '0')}`;
+			const { lot, dateCode } = lotOf(p, s);
 			const iHi = Math.min(0.3 * (p.ratings.forwardA ?? 0.01), 0.05);
 			const temps = [25, ...(p.hot && s <= 2 ? [p.hot] : [])];
 			for (const T of temps) {
@@ -111,6 +116,7 @@ export function generate(): ManifestEntry[] {
 			}
 		}
 	}
+	manifest.push(...writeCapacitanceSweeps(DIR, DEMO_PARTS, lotOf));
 	writeFileSync(DIR + 'manifest.json', JSON.stringify(manifest, null, 1) + '\n');
 	return manifest;
 }

@@ -57,7 +57,8 @@ export async function loadDemoCatalogue(actor: { id: string } | null): Promise<{
 			}
 			const [s] = await db.select().from(samples).where(and(eq(samples.partId, part.id), eq(samples.unit, e.sample)));
 			if (!s) await catalogue.addSample(actor, part.id, { unit: e.sample, lot: e.lot, dateCode: e.dateCode });
-			await runs.ingest(actor, { partId: part.id, sample: e.sample, temperatureC: e.temperatureC, source: { kind: 'file', fileName: e.file, bytes } });
+			const cv = 'measurement' in e ? { measurement: e.measurement, strayCapacitanceF: e.strayCapacitanceF, frequencyHz: e.frequencyHz, testLevelV: e.testLevelV } : {};
+			await runs.ingest(actor, { partId: part.id, sample: e.sample, temperatureC: e.temperatureC, source: { kind: 'file', fileName: e.file, bytes }, ...cv });
 			newRuns++;
 		}
 	}

@@ -9,7 +9,7 @@ import { formatSI, formatTemperature, parseQuantity, parseTemperature, type Quan
 
 export type FieldKind = Exclude<QuantityKind, 'number'> | 'temperature';
 
-const UNIT: Record<Exclude<FieldKind, 'temperature'>, string> = { voltage: 'V', current: 'A', resistance: 'Ω', capacitance: 'F' };
+const UNIT: Record<Exclude<FieldKind, 'temperature'>, string> = { voltage: 'V', current: 'A', resistance: 'Ω', capacitance: 'F', frequency: 'Hz' };
 
 /** How each kind is written, for hints and messages. */
 export const FIELD_EXAMPLE: Record<FieldKind, string> = {
@@ -17,6 +17,7 @@ export const FIELD_EXAMPLE: Record<FieldKind, string> = {
 	current: '200 mA or 10p',
 	resistance: '10 kΩ or 1 G',
 	capacitance: '10 pF or 3.3n',
+	frequency: '1 MHz or 100k',
 	temperature: '85 °C or 358 K'
 };
 
@@ -25,6 +26,7 @@ const NOUN: Record<FieldKind, string> = {
 	current: 'a current',
 	resistance: 'a resistance',
 	capacitance: 'a capacitance',
+	frequency: 'a frequency',
 	temperature: 'a temperature'
 };
 

@@ -3,7 +3,7 @@
 import { readFileSync } from 'node:fs';
 import { eq } from 'drizzle-orm';
 import { beforeAll, describe, expect, test } from 'vitest';
-import { fitSweepCsv } from '$lib/junction';
+import { fitCapacitanceCsv, fitSweepCsv } from '$lib/junction';
 import { db } from '$lib/server/db';
 import { auditLog, partModels, parts } from '$lib/server/db/schema';
 import { api, browse, tokenFor, unique } from './helpers';
@@ -220,7 +220,8 @@ describe('demo catalogue files', () => {
 
 	test('fits stored for uploaded demo files equal the engine fitting the same file directly', async () => {
 		// The seed loaded these through the upload path; compare with fitSweepCsv on the bytes.
-		const picks = [manifest[0], manifest[17], manifest[40], manifest[manifest.length - 1]];
+		const iv = manifest.filter((e) => !('measurement' in e));
+		const picks = [iv[0], iv[17], iv[40], iv[iv.length - 1]];
 		for (const e of picks) {
 			const demo = DEMO_PARTS.find((d) => d.key === e.part)!;
 			const [part] = await db.select().from(parts).where(eq(parts.partNumber, demo.partNumber));
@@ -233,6 +234,21 @@ describe('demo catalogue files', () => {
 			expect(run.fit.model.N).toBe(direct.model.N);
 			expect(run.fit.model.RS).toBe(direct.model.RS);
 			expect(run.fit.quality.rmsResidualV).toBe(direct.quality.rmsResidualV);
+		}
+	});
+
+	test('C–V fits stored for demo files equal the engine fitting the same file with the recorded stray', async () => {
+		const cv = manifest.filter((e) => 'measurement' in e && e.measurement === 'cv');
+		for (const e of [cv[0], cv[1], cv[cv.length - 1]]) {
+			const demo = DEMO_PARTS.find((d) => d.key === e.part)!;
+			const [part] = await db.select().from(parts).where(eq(parts.partNumber, demo.partNumber));
+			const run = (await api('GET', `/api/v1/junctions/${part.id}`, { as: 'designer' })).body.runs.find((r: { fileName: string }) => r.fileName === e.file);
+			expect(run?.measurement, e.file).toBe('cv');
+			const stray = 'strayCapacitanceF' in e ? e.strayCapacitanceF : undefined;
+			const direct = fitCapacitanceCsv(readFileSync(dir + e.file, 'utf8'), { temperatureC: e.temperatureC, strayCapacitanceF: stray });
+			for (const k of ['CJO', 'VJ', 'M'] as const) expect(run.fit.model[k]).toBe(direct.model[k]);
+			expect(run.fit.strayCapacitanceF).toBe(stray ?? 0);
+			expect(run.fit.quality.rmsRelative).toBe(direct.quality.rmsRelative);
 		}
 	});
 

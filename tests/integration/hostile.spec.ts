@@ -7,10 +7,10 @@ import { beforeAll, describe, expect, test } from 'vitest';
 import { db } from '$lib/server/db';
 import { APP_URL, api, browse, tokenFor, unique } from './helpers';
 
-/** Cases per endpoint: a few dozen here; the benchmark run uses FUZZ_RUNS=1000. */
+/** Cases per endpoint: a few dozen here; the benchmark run sets FUZZ_RUNS (scripts/bench.sh). */
 const RUNS = Number(process.env.FUZZ_RUNS ?? 40);
 
-const TABLES = ['parts', 'samples', 'runs', 'fits', 'part_models', 'projects', 'shortlist_entries', 'review_events', 'audit_log', 'mail_outbox'];
+const TABLES = ['parts', 'samples', 'runs', 'fits', 'part_models', 'part_capacitance', 'projects', 'shortlist_entries', 'review_events', 'audit_log', 'mail_outbox'];
 
 async function counts(): Promise<Record<string, number>> {
 	const row = (await db.execute(sql.raw(`select ${TABLES.map((t) => `(select count(*) from ${t})::int as ${t}`).join(', ')}`)))[0];
@@ -40,6 +40,8 @@ const nasty = fc.oneof(
 	fc.constant(null),
 	fc.string(),
 	fc.array(fc.double(), { maxLength: 5 }),
+	fc.constantFrom('cv', 'iv'),
+	fc.array(fc.record({ voltageV: fc.double(), capacitanceF: fc.double() }), { maxLength: 8 }),
 	fc.dictionary(fc.string({ maxLength: 5 }), fc.jsonValue({ maxDepth: 2 }), { maxKeys: 3 })
 );
 
@@ -75,13 +77,21 @@ const targets: Target[] = [
 	{ method: 'POST', label: '/api/v1/junctions', path: () => '/api/v1/junctions', as: 'librarian', fields: ['partNumber', 'maker', 'kind', 'package', 'material', 'ratings', 'tags', 'model', 'lifecycle'] },
 	{ method: 'PATCH', label: '/api/v1/junctions/{id}', path: () => `/api/v1/junctions/${partId}`, as: 'librarian', fields: ['maker', 'kind', 'package', 'ratings', 'tags', 'model', 'lifecycle', 'notes'] },
 	{ method: 'POST', label: '/api/v1/fit', path: () => '/api/v1/fit', as: 'designer', fields: ['temperatureC', 'points'] },
+	{ method: 'POST', label: '/api/v1/fit/capacitance', path: () => '/api/v1/fit/capacitance', as: 'designer', fields: ['points', 'temperatureC', 'strayCapacitanceF'] },
 	{ method: 'POST', label: '/api/v1/rank', path: () => '/api/v1/rank', as: 'designer', fields: ['biasV', 'temperatureC', 'temperatureRangeC', 'clampCurrentA', 'maxForwardDropV', 'kinds', 'q', 'limit'] },
 	{ method: 'POST', label: '/api/v1/predict', path: () => '/api/v1/predict', as: 'designer', fields: ['model', 'temperatureC', 'biasV', 'currentA'] },
 	{ method: 'POST', label: '/api/v1/projects', path: () => '/api/v1/projects', as: 'designer', fields: ['name', 'description', 'leadEmail', 'requirement', 'memberEmails'] },
 	{ method: 'POST', label: '/api/v1/projects/{id}/shortlist', path: () => `/api/v1/projects/${projectId}/shortlist`, as: 'designer', fields: ['junctionId', 'note'] },
 	{ method: 'DELETE', label: '/api/v1/projects/{id}/shortlist', path: () => `/api/v1/projects/${projectId}/shortlist`, as: 'designer', fields: ['junctionId'] },
 	{ method: 'POST', label: '/api/v1/projects/{id}/review', path: () => `/api/v1/projects/${projectId}/review`, as: 'lead', fields: ['action', 'comment', 'expectedVersion'] },
-	{ method: 'POST', label: '/api/v1/junctions/{id}/runs', path: () => `/api/v1/junctions/${partId}/runs`, as: 'librarian', fields: ['sample', 'temperatureC', 'points'] }
+	{ method: 'POST', label: '/api/v1/junctions/{id}/runs', path: () => `/api/v1/junctions/${partId}/runs`, as: 'librarian', fields: ['sample', 'temperatureC', 'points'] },
+	{
+		method: 'POST',
+		label: '/api/v1/junctions/{id}/runs (C–V)',
+		path: () => `/api/v1/junctions/${partId}/runs`,
+		as: 'librarian',
+		fields: ['sample', 'temperatureC', 'points', 'measurement', 'frequencyHz', 'testLevelV', 'strayCapacitanceF']
+	}
 ];
 
 describe('property-based bodies', () => {
@@ -108,7 +118,7 @@ describe('property-based bodies', () => {
 		const line = fc.oneof(
 			fc.string(),
 			fc.tuple(fc.double(), fc.double()).map(([v, i]) => `${v},${i}`),
-			fc.constantFrom('V,I', 'voltage (V),current (A)', 'V;I', '0,7;1e-3', '\ufeffV,I', 'NaN,NaN', ',,,')
+			fc.constantFrom('V,I', 'voltage (V),current (A)', 'V;I', '0,7;1e-3', '\ufeffV,I', 'NaN,NaN', ',,,', 'V (V),C (pF)', 'VR (V);Cp [pF];Freq (kHz)', '-1,2.5', '0;4,1;1000')
 		);
 		await fc.assert(
 			fc.asyncProperty(fc.array(line, { maxLength: 30 }), async (lines) => {

@@ -21,3 +21,9 @@ export function interval(iv: [number, number] | undefined, unit: string, digits 
 	if (unit) return `${si(iv[0], unit, digits)} … ${si(iv[1], unit, digits)}`;
 	return `${plain(iv[0], digits + 1)} … ${plain(iv[1], digits + 1)}`;
 }
+
+/** A fraction as a percentage: 0.0042 → "0.42 %". */
+export function percent(fraction: number | null | undefined, digits = 2): string {
+	if (fraction === null || fraction === undefined || !Number.isFinite(fraction)) return '—';
+	return `${plain(100 * fraction, digits)} %`;
+}

@@ -1,10 +1,10 @@
 // Conversions between the catalogue's stored models (SPICE names, optional keys) and the
 // engine's complete models, plus the flags every screen shows in words.
 import { createModel, currentAtBias, FLAG_WORDS, scaleModel, type JunctionModel } from '$lib/junction';
-import type { StoredModel } from '$lib/server/db/schema/catalogue';
+import type { FitInterval, FitQuality, StoredModel } from '$lib/server/db/schema/catalogue';
 import type { JunctionKind, Material } from './vocabulary';
 
-export type { StoredModel };
+export type { FitInterval, FitQuality, StoredModel };
 
 /**
  * The engine's material for a part. The engine uses the catalogue's material names and
@@ -63,6 +63,8 @@ export type PartFacts = {
 	hasModel: boolean;
 	sampleCount: number;
 	reverseMeasured: boolean;
+	/** Where the part's capacitance comes from (null: it has none). */
+	capacitanceSource?: 'measured' | 'given' | null;
 };
 
 /** Cautions about a part in plain words; screens list them beside the model. */
@@ -76,6 +78,8 @@ export function partFlags(p: PartFacts): { code: string; text: string }[] {
 		});
 	if (p.hasModel && !p.reverseMeasured)
 		flags.push({ code: 'reverse-not-measured', text: FLAG_WORDS['reverse-not-measured'].long });
+	if (p.capacitanceSource === 'given')
+		flags.push({ code: 'capacitance-from-card', text: FLAG_WORDS['capacitance-from-card'].long });
 	if (p.isMeasured && p.sampleCount < 3)
 		flags.push({
 			code: 'few-samples',

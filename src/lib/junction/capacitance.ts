@@ -12,17 +12,38 @@ import type { JunctionModel } from './model';
 import { scaleModel, type ScaledJunction } from './temperature';
 import { solveBias } from './shockley';
 
+/** The four depletion-capacitance parameters of a junction at one temperature. */
+export interface DepletionParameters {
+	/** Zero-bias capacitance [F]. */
+	CJO: number;
+	/** Junction potential [V]. */
+	VJ: number;
+	/** Grading coefficient [-]. */
+	M: number;
+	/** Forward-bias coefficient [-]: the formula is linearised from FC·VJ on. */
+	FC: number;
+}
+
+/**
+ * Depletion capacitance [F] at junction voltage Vd [V] from CJO, VJ, M and FC (formula in
+ * the file header), at the temperature those parameters hold for.
+ * @throws RangeError when Vd is not finite.
+ */
+export function depletionCapacitanceAt(p: DepletionParameters, vd: number): number {
+	if (!Number.isFinite(vd)) throw new RangeError(`junction voltage must be finite, got ${vd}`);
+	if (p.CJO === 0) return 0;
+	if (vd < p.FC * p.VJ) return p.CJO * Math.exp(-p.M * Math.log(1 - vd / p.VJ));
+	const f2 = Math.exp((1 + p.M) * Math.log(1 - p.FC));
+	const f3 = 1 - p.FC * (1 + p.M);
+	return (p.CJO / f2) * (f3 + (p.M * vd) / p.VJ);
+}
+
 /**
  * Depletion capacitance [F] at junction voltage Vd [V] for a scaled model (formula in file header).
  * @throws RangeError when Vd is not finite.
  */
 export function depletionCapacitance(s: ScaledJunction, vd: number): number {
-	if (!Number.isFinite(vd)) throw new RangeError(`junction voltage must be finite, got ${vd}`);
-	if (s.CJO === 0) return 0;
-	if (vd < s.FC * s.VJ) return s.CJO * Math.exp(-s.M * Math.log(1 - vd / s.VJ));
-	const f2 = Math.exp((1 + s.M) * Math.log(1 - s.FC));
-	const f3 = 1 - s.FC * (1 + s.M);
-	return (s.CJO / f2) * (f3 + (s.M * vd) / s.VJ);
+	return depletionCapacitanceAt(s, vd);
 }
 
 /**

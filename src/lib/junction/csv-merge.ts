@@ -1,8 +1,8 @@
 /**
  * Merging the raw points of a sweep: repeated traces, overlapping ranges and repeated readings
  * at one voltage become one point each, the mean of a narrow voltage bin, after rejecting (and
- * counting) the readings far from their bin's median. Used for the measured quantity of a sweep
- * (the current of an I–V file); `Quantity` names what is merged in the messages.
+ * counting) the readings far from their bin's median. Used for currents (I–V) and capacitances
+ * (C–V) alike; `Quantity` names what is merged in the messages.
  */
 import type { DataIssue } from './errors';
 import { median } from 'simple-statistics';

@@ -1,8 +1,8 @@
 /**
- * The shared first steps of reading a bench sweep from CSV text, for every kind of sweep file:
+ * The shared first steps of reading a bench sweep from CSV text, for I–V and C–V files alike:
  * the text checked (empty, too large, binary), split into rows (`,` `;` tab or `|`, a UTF-8 BOM;
  * decimal commas when the separator is not a comma), the header found and its columns given a
- * role and a unit (`V (mV)`, `I [nA]`, `V/mV`, `current_uA`), each cell read as a number in SI
+ * role and a unit (`V (mV)`, `I [nA]`, `C/pF`, `current_uA`), each cell read as a number in SI
  * units with the problems collected, each naming its 1-based file row (header = row 1) and its
  * column as the header spells it.
  */
@@ -27,6 +27,8 @@ export type UnitTable = Record<string, number>;
 
 export const VOLTAGE_UNITS: UnitTable = { v: 1, mv: 1e-3, uv: 1e-6, µv: 1e-6, μv: 1e-6, kv: 1e3 };
 export const CURRENT_UNITS: UnitTable = { a: 1, ma: 1e-3, ua: 1e-6, µa: 1e-6, μa: 1e-6, na: 1e-9, pa: 1e-12, fa: 1e-15 };
+export const CAPACITANCE_UNITS: UnitTable = { f: 1, uf: 1e-6, µf: 1e-6, μf: 1e-6, nf: 1e-9, pf: 1e-12, ff: 1e-15 };
+export const FREQUENCY_UNITS: UnitTable = { hz: 1, khz: 1e3, mhz: 1e6 };
 
 /** Reads a temperature unit: °C or K, or undefined when it is neither. */
 function temperatureScale(u: string): 'C' | 'K' | undefined {
@@ -35,9 +37,9 @@ function temperatureScale(u: string): 'C' | 'K' | undefined {
 	return undefined;
 }
 
-const SUFFIX_UNITS = [VOLTAGE_UNITS, CURRENT_UNITS];
+const SUFFIX_UNITS = [VOLTAGE_UNITS, CURRENT_UNITS, CAPACITANCE_UNITS, FREQUENCY_UNITS];
 
-/** A header cell split into its name and its unit: `V (mV)`, `I [nA]`, `V/mV`, `current_uA`. */
+/** A header cell split into its name and its unit: `V (mV)`, `I [nA]`, `C/pF`, `current_uA`. */
 export function splitHeader(raw: string): { base: string; unit?: string } {
 	const h = raw.trim();
 	let m = /^(.*?)\s*[([]\s*([^)\]]*)\s*[)\]]\s*$/.exec(h);
@@ -264,5 +266,5 @@ export function kelvinGuessWarning(col: Column | undefined, seen: TemperatureRea
 	return { column: col.name, message: 'temperature column has no unit; values of 200 or more were read as kelvin' };
 }
 
-/** Names that mean a temperature column. */
+/** Role names shared by I–V and C–V files. */
 export const isTemperatureName = (b: string) => /^(t|tj|ta|temp|temperature)$/.test(b) || /temp/.test(b);

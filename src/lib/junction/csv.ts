@@ -9,7 +9,7 @@
  * rejected and counted. A row with more (non-empty) cells than the header is refused,
  * since its values cannot be assigned to columns. Every problem is reported with its 1-based file row
  * (header = row 1) and column name, all at once, in a `SweepError`.
- * The general steps live in csv-table.ts (reading cells and columns) and csv-merge.ts (merging points).
+ * The steps shared with C–V files live in csv-table.ts (reading) and csv-merge.ts (merging).
  */
 import { SweepError, type DataIssue } from './errors';
 import {
@@ -68,8 +68,8 @@ export interface SweepOptions {
 	maxIssues?: number;
 }
 
-/** Names that mean a voltage column. */
-const isVoltageName = (b: string) => /^(v|u|vf|vr|vd|vak|vbe|bias|volts?|voltage|vbias|v_?bias)$/.test(b) || /voltage/.test(b);
+/** Names that mean a voltage column, for I–V and C–V files alike. */
+export const isVoltageName = (b: string) => /^(v|u|vf|vr|vd|vak|vbe|bias|volts?|voltage|vbias|v_?bias)$/.test(b) || /voltage/.test(b);
 
 const IV_ROLES: RoleSpec<Role>[] = [
 	{ role: 'voltage', noun: 'voltage', matches: isVoltageName, units: VOLTAGE_UNITS, unitHint: 'use V, mV or µV' },

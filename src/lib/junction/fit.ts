@@ -17,6 +17,7 @@ import { SI_2019, celsiusToKelvin, type PhysicalConstants } from './constants';
 import { canonicalMaterial, createModel, MATERIAL_DEFAULTS, type JunctionMaterial, type JunctionModel } from './model';
 import { FitError, type DataIssue } from './errors';
 import { invert, leastSquares, tQuantile975 } from './linalg';
+import { median } from 'simple-statistics';
 import { parseSweepCsv, type ParsedSweep, type SweepOptions, type SweepRun } from './csv';
 
 export interface FitOptions {
@@ -200,12 +201,6 @@ function residuals(pts: Pts, ev: Evaluator, p: number[]): number[] {
 	return pts.V.map((v, k) => v - f(k));
 }
 
-function medianOf(xs: number[]): number {
-	const s = [...xs].sort((a, b) => a - b);
-	const m = s.length >> 1;
-	return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
-}
-
 /** The runs without the merged points whose voltage lies in [lo, hi], and how many raw points those held. */
 function excludeWindow(runs: SweepRun[], [lo, hi]: [number, number]): { runs: SweepRun[]; excluded: number } {
 	if (!Number.isFinite(lo) || !Number.isFinite(hi) || lo > hi) throw new RangeError(`excludeV must be a finite [lo, hi] with lo ≤ hi, got [${lo}, ${hi}]`);
@@ -288,7 +283,7 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 
 	// Reject points with residuals beyond 5 robust σ (and 1 mV), then refit once.
 	let r = residuals(pts, ev, p);
-	const sigma = 1.4826 * medianOf(r.map(Math.abs));
+	const sigma = 1.4826 * median(r.map(Math.abs));
 	const limit = Math.max(5 * sigma, 1e-3);
 	const bad = r.map((x) => Math.abs(x) > limit);
 	const nBad = bad.filter(Boolean).length;

@@ -9,6 +9,7 @@ export {
 	parseCurrent,
 	parseResistance,
 	parseCapacitance,
+	parseFrequency,
 	parseTemperature,
 	formatSI,
 	formatBias,
@@ -32,7 +33,8 @@ export {
 	junctionCurrent,
 	solveBias
 } from './shockley';
-export { junctionCapacitance, depletionCapacitance } from './capacitance';
+export { junctionCapacitance, depletionCapacitance, depletionCapacitanceAt } from './capacitance';
+export type { DepletionParameters } from './capacitance';
 export { parseSpiceNumber, parseModelCard, parseModelCards, emitModelCard } from './spice-card';
 export type { ParsedModelCard, EmitOptions } from './spice-card';
 export { emitSpiceBlock, spiceIdentifier, spiceNumber, shuntTce, needsSubcircuit, worstSampleAt, asciiText } from './spice-export';
@@ -41,7 +43,11 @@ export { SweepError, SweepTooLargeError, FitError } from './errors';
 export type { DataIssue } from './errors';
 export { parseSweepCsv, checkSweepSize, MAX_SWEEP_BYTES } from './csv';
 export type { ParsedSweep, SweepRun, SweepOptions } from './csv';
+export { parseCapacitanceCsv, sweepKindOf } from './cv-csv';
+export type { ParsedCapacitanceSweep, CapacitanceRun } from './cv-csv';
 export { fitSweep, fitSweepCsv } from './fit';
+export { fitCapacitance, fitCapacitanceCsv, POOR_CV_FIT_RELATIVE } from './cv-fit';
+export type { CapacitanceFitResult, CapacitanceFitOptions } from './cv-fit';
 export type { FitResult, FitOptions, Interval } from './fit';
 export { ModelTable } from './model-table';
 export {

@@ -20,7 +20,9 @@ export const FLAG_CODES = [
 	'over-leakage-target',
 	'over-capacitance-limit',
 	'band-gap-assumed',
-	'over-forward-rating'
+	'over-forward-rating',
+	// Set by the catalogue, which knows where a part's CJO, VJ and M came from; the table does not.
+	'capacitance-from-card'
 ] as const;
 export type FlagCode = (typeof FLAG_CODES)[number];
 
@@ -98,6 +100,11 @@ export const FLAG_WORDS: Record<FlagCode, { short: string; long: string; caution
 		short: 'clamp over forward rating',
 		long: 'The clamp current is above the rated forward current: the part is not rated to carry it, and its forward drop there means little.',
 		caution: true
+	},
+	'capacitance-from-card': {
+		short: 'capacitance from card',
+		long: 'Capacitance from a datasheet card: no C–V sweep of this part was measured, so CJO, VJ and M are the card’s.',
+		caution: false
 	}
 };
 

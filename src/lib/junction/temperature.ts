@@ -92,7 +92,7 @@ export function shuntResistanceAt(model: JunctionModel, temperatureC: number): n
  * @throws RangeError for invalid temperatures.
  */
 export function junctionPotentialAt(
-	model: JunctionModel,
+	model: Pick<JunctionModel, 'VJ' | 'M' | 'CJO' | 'TNOM'>,
 	temperatureC: number,
 	constants: PhysicalConstants = SI_2019
 ): { VJ: number; CJO: number } {

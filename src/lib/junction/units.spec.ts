@@ -35,7 +35,12 @@ describe('parsing quantities as typed', () => {
 		['4.7k ohm', 'resistance', 4700],
 		['2 MΩ', 'resistance', 2e6],
 		['10 pF', 'capacitance', 1e-11],
-		['3.3n', 'capacitance', 3.3e-9]
+		['3.3n', 'capacitance', 3.3e-9],
+		['0.5 pF', 'capacitance', 5e-13],
+		['1 kHz', 'frequency', 1e3],
+		['1 MHz', 'frequency', 1e6],
+		['100k', 'frequency', 1e5],
+		['50 Hz', 'frequency', 50]
 	] as const)('%s as %s = %s', (text, kind, expected) => {
 		expectRelClose(parseQuantity(text, kind), expected, 1e-15, text);
 	});
@@ -66,7 +71,8 @@ describe('parsing quantities as typed', () => {
 		['5 V', 'current', 'expected a current'],
 		['10 pA', 'voltage', 'expected a voltage'],
 		['1..2', 'number', 'expected a number'],
-		['5 xV', 'voltage', 'expected a voltage']
+		['5 xV', 'voltage', 'expected a voltage'],
+		['1 kV', 'frequency', 'expected a frequency such as 1 kHz or 1 MHz']
 	] as const)('rejects %j as %s', (text, kind, msg) => {
 		expect(() => parseQuantity(text, kind)).toThrow(msg);
 	});

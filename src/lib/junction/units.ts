@@ -8,7 +8,7 @@
  */
 import { ZERO_CELSIUS_K } from './constants';
 
-export type QuantityKind = 'voltage' | 'current' | 'resistance' | 'capacitance' | 'number';
+export type QuantityKind = 'voltage' | 'current' | 'resistance' | 'capacitance' | 'frequency' | 'number';
 
 interface KindInfo {
 	units: string[];
@@ -21,6 +21,7 @@ const KIND_INFO: Record<QuantityKind, KindInfo> = {
 	current: { units: ['a', 'amp', 'amps', 'ampere', 'amperes'], example: '10 pA or 1e-12', noun: 'a current' },
 	resistance: { units: ['ω', 'ω', 'ohm', 'ohms', 'r'], example: '10 Ω or 1 GΩ', noun: 'a resistance' },
 	capacitance: { units: ['f', 'farad', 'farads'], example: '10 pF or 3.3n', noun: 'a capacitance' },
+	frequency: { units: ['hz', 'hertz'], example: '1 kHz or 1 MHz', noun: 'a frequency' },
 	number: { units: [], example: '1.5 or 2e-3', noun: 'a number' }
 };
 
@@ -61,7 +62,7 @@ function fail(kind: QuantityKind, text: string): never {
 
 /**
  * Parse a quantity with an optional SI prefix and optional unit symbol and
- * return its value in the base SI unit (V, A, Ω, F, or a plain number).
+ * return its value in the base SI unit (V, A, Ω, F, Hz, or a plain number).
  * Examples: `parseQuantity('10 pA','current') = 1e-11`, `parseQuantity('612m','voltage') = 0.612`.
  * A decimal comma is accepted when it is the only separator (`0,612 V`).
  * @throws Error whose message says what was expected when the text is not understood.
@@ -122,6 +123,11 @@ export function parseResistance(text: string): number {
 /** Parse a capacitance in farads (`10p`, `10 pF`). @throws Error with an explanatory message. */
 export function parseCapacitance(text: string): number {
 	return parseQuantity(text, 'capacitance');
+}
+
+/** Parse a frequency in hertz (`1 kHz`, `1 MHz`, `100k`). @throws Error with an explanatory message. */
+export function parseFrequency(text: string): number {
+	return parseQuantity(text, 'frequency');
 }
 
 export interface ParsedTemperature {

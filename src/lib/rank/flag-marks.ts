@@ -21,5 +21,6 @@ export const FLAG_MARKS: Record<FlagCode, string> = {
 	'over-leakage-target': 'IL>',
 	'over-capacitance-limit': 'C>',
 	'band-gap-assumed': 'Eg?',
-	'over-forward-rating': 'IF>'
+	'over-forward-rating': 'IF>',
+	'capacitance-from-card': 'C?'
 };

@@ -17,7 +17,10 @@ export const excludeWindow = z
 	})
 	.refine(([lo, hi]) => lo < hi, { message: 'The excluded window must start below where it ends.' });
 
-export const refitSchema = z.object({ excludeV: excludeWindow.nullable().optional(), reason: optionalReason }).strict();
+/** C–V runs: the stray (fixture) capacitance subtracted before fitting [F]. */
+const stray = z.number().finite('strayCapacitanceF must be a finite capacitance.').min(0, 'The stray capacitance is zero or more.').lt(1e-6, 'The stray capacitance is below 1 µF.');
+
+export const refitSchema = z.object({ excludeV: excludeWindow.nullable().optional(), strayCapacitanceF: stray.optional(), reason: optionalReason }).strict();
 
 export const correctSchema = z
 	.object({ sample: sampleInput.shape.unit.optional(), temperatureC: temperatureC.optional(), reason: optionalReason })
@@ -34,25 +37,29 @@ function firstIssues(e: z.ZodError, fieldOf: Record<string, string>, errors: Fie
 	for (const i of e.issues) errors[fieldOf[String(i.path[0])] ?? 'form'] ??= i.message;
 }
 
-/** The re-fit form's window as typed ("-0.2 V", "350m"), read by the engine's parser. */
-const windowForm = z.object({ fromV: optionalQuantity('voltage', 'From'), toV: optionalQuantity('voltage', 'To') });
+/** The re-fit form's window as typed ("-0.2 V", "350m") and a C–V run's stray capacitance ("0.4 pF"), read by the engine's parser. */
+const windowForm = z.object({
+	fromV: optionalQuantity('voltage', 'From'),
+	toV: optionalQuantity('voltage', 'To'),
+	stray: optionalQuantity('capacitance', 'Stray capacitance')
+});
 
-/** The re-fit form: "from" and "to" as typed, both or neither. */
-export function refitFromForm(v: { fromV: string; toV: string; reason: string }): { input?: RefitInput; errors: FieldErrors } {
+/** The re-fit form: "from" and "to" as typed, both or neither; a C–V run's stray capacitance. */
+export function refitFromForm(v: { fromV: string; toV: string; reason: string; stray?: string }): { input?: RefitInput; errors: FieldErrors } {
 	const errors: FieldErrors = {};
-	const w = windowForm.safeParse({ fromV: v.fromV, toV: v.toV });
+	const w = windowForm.safeParse({ fromV: v.fromV, toV: v.toV, stray: v.stray ?? '' });
 	if (!w.success) {
-		firstIssues(w.error, { fromV: 'fromV', toV: 'toV' }, errors);
+		firstIssues(w.error, { fromV: 'fromV', toV: 'toV', stray: 'stray' }, errors);
 		return { errors };
 	}
-	const { fromV: lo, toV: hi } = w.data;
+	const { fromV: lo, toV: hi, stray: strayF } = w.data;
 	if ((lo === undefined) !== (hi === undefined)) {
 		errors[lo === undefined ? 'fromV' : 'toV'] = 'Give both ends of the window, or neither to fit every point.';
 		return { errors };
 	}
-	const r = refitSchema.safeParse({ excludeV: lo !== undefined && hi !== undefined ? [lo, hi] : null, reason: v.reason });
+	const r = refitSchema.safeParse({ excludeV: lo !== undefined && hi !== undefined ? [lo, hi] : null, reason: v.reason, ...(strayF !== undefined ? { strayCapacitanceF: strayF } : {}) });
 	if (!r.success) {
-		firstIssues(r.error, { excludeV: 'toV', reason: 'reason' }, errors);
+		firstIssues(r.error, { excludeV: 'toV', reason: 'reason', strayCapacitanceF: 'stray' }, errors);
 		return { errors };
 	}
 	return { input: r.data, errors };

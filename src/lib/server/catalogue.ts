@@ -8,12 +8,13 @@ import { DomainError } from './api';
 import { fail } from './http-error';
 import { recordAudit } from './audit';
 import { db, type DbOrTx } from './db';
-import { fits, partModels, parts, runs, samples, type StoredModel } from './db/schema';
+import { fits, partCapacitance, partModels, parts, runs, samples, type StoredModel } from './db/schema';
 import { rebuildPartModel } from './part-models';
 
 type Actor = { id: string } | null;
 export type Part = typeof parts.$inferSelect;
 export type PartModelRow = typeof partModels.$inferSelect;
+export type PartCapacitanceRow = typeof partCapacitance.$inferSelect;
 
 /** A given model must be one the engine accepts; its complaint names the parameter. */
 function checkModel(model: StoredModel, material: Material, path = 'model'): void {
@@ -158,13 +159,17 @@ export async function detail(id: number) {
 	const part = await get(id);
 	if (!part) return null;
 	const [model] = await db.select().from(partModels).where(eq(partModels.partId, id));
+	const [capacitance] = await db.select().from(partCapacitance).where(eq(partCapacitance.partId, id));
 	const sampleRows = await db.select().from(samples).where(eq(samples.partId, id)).orderBy(asc(samples.unit));
 	const runRows = await db
 		.select({
 			id: runs.id,
 			sampleId: runs.sampleId,
+			measurement: runs.measurement,
 			temperatureC: runs.temperatureC,
 			direction: runs.direction,
+			frequencyHz: runs.frequencyHz,
+			testLevelV: runs.testLevelV,
 			fileName: runs.fileName,
 			sha256: runs.fileSha256,
 			points: runs.points,
@@ -172,14 +177,31 @@ export async function detail(id: number) {
 			state: runs.state,
 			withdrawnAt: runs.withdrawnAt,
 			withdrawnReason: runs.withdrawnReason,
-			fit: { version: fits.version, model: fits.model, interval: fits.interval, quality: fits.quality, range: fits.range, excludedV: fits.excludedV }
+			fit: {
+				version: fits.version,
+				model: fits.model,
+				interval: fits.interval,
+				quality: fits.quality,
+				range: fits.range,
+				excludedV: fits.excludedV,
+				strayCapacitanceF: fits.strayCapacitanceF
+			}
 		})
 		.from(runs)
 		// The current fit version of each run; earlier ones are on the run's own page.
 		.leftJoin(fits, and(eq(fits.runId, runs.id), isNull(fits.supersededAt)))
 		.where(eq(runs.partId, id))
 		.orderBy(asc(runs.id));
-	return { part, model: model ?? null, samples: sampleRows, runs: runRows };
+	return { part, model: model ?? null, capacitance: capacitance ?? null, samples: sampleRows, runs: runRows.map(runFit) };
+}
+
+type RunRow = { measurement: string; fit: { strayCapacitanceF: number | null } | null };
+
+/** A run's current fit as shown: the stray capacitance only on C–V fits. */
+function runFit<R extends RunRow>(r: R): R {
+	if (r.measurement === 'cv' || !r.fit) return r;
+	const { strayCapacitanceF: _, ...fit } = r.fit;
+	return { ...r, fit: fit as R['fit'] };
 }
 
 /** A part's detail, or a 404 (page or JSON, through the caller's error handling). */
@@ -189,8 +211,14 @@ export async function detailOr404(id: number) {
 	return d;
 }
 
+/** The part's capacitance as the API shows it: where it comes from, typical CJO/VJ/M/FC at TNOM, spread, samples. */
+function presentCapacitance(c: PartCapacitanceRow | null) {
+	if (!c) return null;
+	return { source: c.source, typical: c.typical, spread: c.spread, sampleCount: c.samples.length, samples: c.samples.map(({ unit, runId, CJO, VJ, M, FC, temperatureC }) => ({ unit, runId, CJO, VJ, M, FC, temperatureC })) };
+}
+
 /** The API's representation of a part (SI units, °C). */
-export function present(part: Part, model: PartModelRow | null) {
+export function present(part: Part, model: PartModelRow | null, capacitance: PartCapacitanceRow | null = null) {
 	return {
 		id: part.id,
 		partNumber: part.partNumber,
@@ -221,6 +249,7 @@ export function present(part: Part, model: PartModelRow | null) {
 				version: model.version
 			}
 			: null,
+		capacitance: presentCapacitance(capacitance),
 		flags: partFlags({
 			kind: part.kind,
 			material: part.material,
@@ -228,7 +257,8 @@ export function present(part: Part, model: PartModelRow | null) {
 			isMeasured: model?.isMeasured ?? false,
 			hasModel: Boolean(model),
 			sampleCount: model?.sampleCount ?? 0,
-			reverseMeasured: model?.measured.reverseMeasured ?? false
+			reverseMeasured: model?.measured.reverseMeasured ?? false,
+			capacitanceSource: capacitance?.source ?? null
 		})
 	};
 }
@@ -243,15 +273,16 @@ export async function list(opts: { q: string; kind?: JunctionKind; limit: number
 		where.push(or(ilike(parts.partNumber, like), ilike(parts.maker, like), sql`exists (select 1 from unnest(${parts.tags}) t where t ilike ${like})`) as SQL);
 	}
 	const rows = await db
-		.select({ part: parts, model: partModels })
+		.select({ part: parts, model: partModels, capacitance: partCapacitance })
 		.from(parts)
 		.leftJoin(partModels, eq(partModels.partId, parts.id))
+		.leftJoin(partCapacitance, eq(partCapacitance.partId, parts.id))
 		.where(where.length ? and(...where) : undefined)
 		.orderBy(asc(parts.id))
 		.limit(opts.limit + 1);
 	const more = rows.length > opts.limit;
 	const page = rows.slice(0, opts.limit);
-	return { items: page.map((r) => present(r.part, r.model)), nextCursor: more ? String(page[page.length - 1].part.id) : null };
+	return { items: page.map((r) => present(r.part, r.model, r.capacitance)), nextCursor: more ? String(page[page.length - 1].part.id) : null };
 }
 
 /** One catalogue row as the search page needs it: short keys, typical figures only. */

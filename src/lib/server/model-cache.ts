@@ -42,6 +42,8 @@ export type CachedPart = {
 	typicalModel: JunctionModel;
 	/** Where a given model came from (card, datasheet), when there is one. */
 	givenSource: string | null;
+	/** Where the CJO, VJ and M in its models come from (null: it has none). */
+	capacitanceSource: 'measured' | 'given' | null;
 	record: PartRecord;
 };
 
@@ -65,6 +67,7 @@ type Row = {
 	is_measured: boolean;
 	given_model_source: string | null;
 	measured: { minCurrentA: number | null; temperaturesC: number[]; reverseMeasured: boolean; worstRmsResidualV: number | null };
+	capacitance_source: 'measured' | 'given' | null;
 };
 
 /** The engine model of one stored model; EG/XTI defaults by material come from the engine. */
@@ -118,6 +121,7 @@ export function partFromRow(row: Row): CachedPart {
 		typical: row.typical,
 		typicalModel: toEngineModel(row.typical, row),
 		givenSource: row.given_model_source,
+		capacitanceSource: row.capacitance_source ?? null,
 		record
 	};
 }
@@ -136,7 +140,8 @@ export class CacheSnapshot {
 
 const SELECT_COLUMNS = `p.id, p.part_number, p.maker, p.kind, p.package, p.lifecycle, p.material, p.admits_light,
 	p.rated_reverse_v, p.rated_forward_a, p.shunt_factor_per_10k, p.tags, p.model_version, p.given_model_source,
-	m.typical, m.sample_models, m.sample_units, m.is_measured, m.measured`;
+	m.typical, m.sample_models, m.sample_units, m.is_measured, m.measured, c.source as capacitance_source`;
+const FROM_PARTS = 'from parts p join part_models m on m.part_id = p.id left join part_capacitance c on c.part_id = p.id';
 
 /**
  * One part read straight from the database, built exactly as the cache builds it (null
@@ -144,7 +149,7 @@ const SELECT_COLUMNS = `p.id, p.part_number, p.maker, p.kind, p.package, p.lifec
  * @throws RangeError when its stored model is unusable.
  */
 export async function loadPart(sql: Sql, id: number): Promise<CachedPart | null> {
-	const rows = (await sql.unsafe(`select ${SELECT_COLUMNS} from parts p join part_models m on m.part_id = p.id where p.id = $1`, [
+	const rows = (await sql.unsafe(`select ${SELECT_COLUMNS} ${FROM_PARTS} where p.id = $1`, [
 		id
 	])) as unknown as Row[];
 	return rows.length ? partFromRow(rows[0]) : null;
@@ -269,7 +274,7 @@ export class ModelCache {
 	/** Re-reads every part and rebuilds the table now. */
 	async reloadAll(): Promise<void> {
 		const rows = (await this.sql.unsafe(
-			`select ${SELECT_COLUMNS} from parts p join part_models m on m.part_id = p.id order by p.id`
+			`select ${SELECT_COLUMNS} ${FROM_PARTS} order by p.id`
 		)) as unknown as Row[];
 		const next = new Map<number, CachedPart>();
 		this.skipped.clear();
@@ -316,7 +321,7 @@ export class ModelCache {
 		this.pendingIds.clear();
 		if (ids.length === 0) return;
 		const rows = (await this.sql.unsafe(
-			`select ${SELECT_COLUMNS} from parts p join part_models m on m.part_id = p.id where p.id = any($1::int[])`,
+			`select ${SELECT_COLUMNS} ${FROM_PARTS} where p.id = any($1::int[])`,
 			[ids]
 		)) as unknown as Row[];
 		const found = new Set<number>();

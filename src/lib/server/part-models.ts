@@ -1,16 +1,20 @@
-// Rebuilds a part's aggregate model row (part_models) from its active runs' current fits,
-// or its given model. Called inside the transaction that changed a fit, a run's state, a
-// sample or the given model.
+// Rebuilds a part's aggregate model row (part_models) from its active I–V runs' current fits,
+// or its given model, with the part's capacitance (part-capacitance.ts: its C–V runs, else the
+// given card) in every sample model. Called inside the transaction that changed a fit, a run's
+// state, a sample or the given model.
 import { and, asc, eq, isNull, sql } from 'drizzle-orm';
 import { median } from 'simple-statistics';
-import { db, type DbOrTx } from './db';
-import { fits, partModels, parts, runs, samples, type StoredModel } from './db/schema';
+import type { DbOrTx } from './db';
+import { fits, partModels, parts, runs, samples, type FitQuality, type FitRange, type StoredModel, type SweepDirection } from './db/schema';
 import { notifyModelChanged } from './model-events';
 import { currentMagnitude, LEAKAGE_PROBE } from '$lib/catalogue/models';
 import type { Material } from '$lib/catalogue/vocabulary';
+import { rebuildPartCapacitance, withCapacitance } from './part-capacitance';
 
 /** The run temperature each sample is represented by: the one nearest SPICE's TNOM default. */
 export const NOMINAL_C = 27;
+
+type IvFitRow = { sampleId: number; unit: string; model: StoredModel; quality: FitQuality; range: FitRange; temperatureC: number; direction: SweepDirection };
 
 type SampleFit = { sampleId: number; unit: string; model: StoredModel; rms: number };
 
@@ -31,9 +35,10 @@ export function aggregate(models: StoredModel[]): { typical: StoredModel; spread
 	return { typical: typical as StoredModel, spread };
 }
 
-/** A part's current fits of active runs with what the aggregate needs of their runs and samples, oldest run first. */
-function fitRows(tx: DbOrTx, partId: number) {
-	return tx
+/** A part's current fits of active I–V runs with what the aggregate needs of their runs and samples, oldest run first. */
+async function fitRows(tx: DbOrTx, partId: number): Promise<IvFitRow[]> {
+	// Only I–V fits (the filter below), so their model, quality and range are the Shockley shapes.
+	return (await tx
 		.select({
 			sampleId: fits.sampleId,
 			unit: samples.unit,
@@ -47,12 +52,12 @@ function fitRows(tx: DbOrTx, partId: number) {
 		.innerJoin(runs, eq(runs.id, fits.runId))
 		.innerJoin(samples, eq(samples.id, fits.sampleId))
 		// Each active run's current fit: withdrawn runs and superseded fit versions stay on record but out of the model.
-		.where(and(eq(fits.partId, partId), isNull(fits.supersededAt), eq(runs.state, 'active')))
-		.orderBy(asc(fits.runId));
+		.where(and(eq(fits.partId, partId), isNull(fits.supersededAt), eq(runs.state, 'active'), eq(runs.measurement, 'iv')))
+		.orderBy(asc(fits.runId))) as IvFitRow[];
 }
 
 /** Per sample: the fit of its run nearest the nominal temperature (earliest on ties), by sample id. */
-function representativeFits(rows: Awaited<ReturnType<typeof fitRows>>): SampleFit[] {
+function representativeFits(rows: IvFitRow[]): SampleFit[] {
 	const bySample = new Map<number, SampleFit & { dist: number }>();
 	for (const r of rows) {
 		const dist = Math.abs(r.temperatureC - NOMINAL_C);
@@ -80,11 +85,6 @@ export async function backfillSampleUnits(tx: DbOrTx): Promise<number> {
 	return stale.length;
 }
 
-/** `backfillSampleUnits` in one transaction on the app's pool (server start, the migrate script). */
-export async function fillSampleUnits(): Promise<number> {
-	return db.transaction((tx) => backfillSampleUnits(tx));
-}
-
 /**
  * Writes (or removes) the part_models row and bumps parts.modelVersion, then announces
  * the change. Returns the new version, or null when the part has no model at all.
@@ -101,12 +101,13 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 	const material = part.material as Material;
 
 	if (rows.length === 0) {
+		const cap = await rebuildPartCapacitance(tx, partId, part.givenModel, part.givenModel ? (part.givenModel.TNOM ?? NOMINAL_C) : null);
 		if (!part.givenModel) {
 			await tx.delete(partModels).where(eq(partModels.partId, partId));
 			await notifyModelChanged(tx, partId);
-			return null;
+			return cap ? version : null;
 		}
-		const given = part.givenModel;
+		const given = withCapacitance(part.givenModel, cap);
 		const row = {
 			typical: given,
 			worst: given,
@@ -124,9 +125,12 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 	}
 
 	const sampleFits = representativeFits(rows);
-	const sampleModels = sampleFits.map((s) => s.model);
 	const sampleUnits = sampleFits.map((s) => s.unit);
-	const { typical, spread } = aggregate(sampleModels);
+	const fitted = aggregate(sampleFits.map((s) => s.model));
+	const cap = await rebuildPartCapacitance(tx, partId, part.givenModel, fitted.typical.TNOM ?? NOMINAL_C);
+	const sampleModels = sampleFits.map((s) => withCapacitance(s.model, cap));
+	const typical = withCapacitance(fitted.typical, cap);
+	const spread = fitted.spread;
 	let worst = sampleModels[0];
 	let worstLeak = -Infinity;
 	for (const m of sampleModels) {
@@ -144,4 +148,35 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
 	await tx.insert(partModels).values({ partId, ...row }).onConflictDoUpdate({ target: partModels.partId, set: row });
 	await notifyModelChanged(tx, partId);
 	return version;
+}
+
+/**
+ * Rebuilds the parts stored before capacitance was kept: those with a card's CJO, or with
+ * active C–V runs, but no part_capacitance row. Returns how many it rebuilt.
+ */
+export async function backfillCapacitance(tx: DbOrTx): Promise<number> {
+	const stale = await tx
+		.select({ id: parts.id })
+		.from(parts)
+		.where(
+			sql`not exists (select 1 from part_capacitance c where c.part_id = ${parts.id})
+				and (coalesce((${parts.givenModel}->>'CJO')::float8, 0) > 0
+					or exists (select 1 from runs r where r.part_id = ${parts.id} and r.measurement = 'cv' and r.state = 'active'))`
+		);
+	for (const { id } of stale) await rebuildPartModel(tx, id);
+	return stale.length;
+}
+
+/** Parts filled in after the migrations by `fillAfterMigrations`, per step. */
+export type MigrationFills = { capacitance: number; sampleUnits: number };
+
+/**
+ * What the migrations leave to the app's own code, in the caller's transaction: parts stored
+ * before their capacitance was kept are rebuilt once (which also stores their sample units),
+ * then measured parts still without sample units get them.
+ */
+export async function fillAfterMigrations(tx: DbOrTx): Promise<MigrationFills> {
+	const capacitance = await backfillCapacitance(tx);
+	const sampleUnits = await backfillSampleUnits(tx);
+	return { capacitance, sampleUnits };
 }

@@ -63,10 +63,17 @@ function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit
 		reverseMarginV: part.ratedReverseV === null ? null : part.ratedReverseV - Math.max(0, -op.biasV),
 		capacitanceF: row.capacitanceF ?? null,
 		errorVoltageV: op.sourceResistanceOhm !== undefined ? row.leakageA.worst * op.sourceResistanceOhm : null,
-		// The engine's flag codes are the API's (RANK_FLAGS lists the same codes).
-		flags: row.flags as RankFlag[],
+		// The engine's flag codes are the API's (RANK_FLAGS lists the same codes); where the
+		// capacitance came from is the catalogue's to say.
+		flags: withCapacitanceFlag(row, part),
 		meetsLimits: row.meetsLimits
 	};
+}
+
+/** The row's flags, with 'capacitance-from-card' when the capacitance shown is a given card's. */
+function withCapacitanceFlag(row: RankedPart, part: CachedPart): RankFlag[] {
+	const flags = row.flags as RankFlag[];
+	return row.capacitanceF !== undefined && part.capacitanceSource === 'given' ? [...flags, 'capacitance-from-card'] : flags;
 }
 
 /** Whether a part passes the catalogue filters (kinds, lifecycles, packages, text). */

@@ -14,7 +14,7 @@ import { db, type DbOrTx } from './db';
 import { auditLog, fits, parts, runs, samples, type FitCause } from './db/schema';
 import { rebuildPartModel } from './part-models';
 import { personRefs } from './people';
-import { fitParsed, parseSweepBytes, type StoredFit } from './runs';
+import { fitCapacitanceParsed, fitParsed, parseCapacitanceBytes, parseSweepBytes, type StoredCvFit, type StoredFit } from './run-intake';
 
 type Who = NonNullable<Actor>;
 type RunRow = typeof runs.$inferSelect;
@@ -27,7 +27,7 @@ type Plan = {
 	/** Move the run to this sample (created when the part has none by that label). */
 	sampleUnit?: string;
 	/** A new fit version replacing the current one. */
-	fit?: { fit: StoredFit; cause: FitCause; note: string };
+	fit?: { fit: StoredFit | StoredCvFit; cause: FitCause; note: string };
 	audit: Record<string, unknown>;
 };
 
@@ -86,7 +86,7 @@ async function amend(actor: Who, partId: number, runId: number, action: RunActio
 			const [{ last }] = await tx.select({ last: max(fits.version) }).from(fits).where(eq(fits.runId, runId));
 			fitVersion = (last ?? 0) + 1;
 			await tx.update(fits).set({ supersededAt: new Date() }).where(and(eq(fits.runId, runId), isNull(fits.supersededAt)));
-			await tx.insert(fits).values({ runId, partId, sampleId, ...p.fit.fit, version: fitVersion, cause: p.fit.cause, note: p.fit.note, fittedBy: actor.id });
+			await tx.insert(fits).values({ runId, partId, sampleId, strayCapacitanceF: null, ...p.fit.fit, version: fitVersion, cause: p.fit.cause, note: p.fit.note, fittedBy: actor.id });
 		}
 		const version = await rebuildPartModel(tx, partId);
 		await recordAudit(tx, { actorId: actor.id, action: `run.${action}`, entity: 'run', entityId: runId, detail: { partId, ...p.audit, fitVersion, modelVersion: version } });
@@ -111,18 +111,42 @@ export function reinstate(actor: Who, partId: number, runId: number, reason: str
 	}));
 }
 
-/** Fits the stored file again at the run's temperature with the run's current window unless told otherwise. */
-function fitStored(c: Loaded, temperatureC: number, excludedV: [number, number] | null): StoredFit {
-	const sweep = parseSweepBytes(c.run.fileBytes, temperatureC);
-	return fitParsed(sweep, { material: c.part.material as Material, given: c.part.givenModel }, excludedV).fit;
+/** How a stored file is fitted again: the temperature, the window left out, and (C–V) the stray capacitance. */
+type RefitSettings = { temperatureC: number; excludedV: [number, number] | null; strayCapacitanceF?: number };
+
+/** Fits the stored file again, as an I–V or a C–V sweep by what the run holds. */
+function fitStored(c: Loaded, s: RefitSettings): StoredFit | StoredCvFit {
+	if (c.run.measurement === 'cv') {
+		const stray = s.strayCapacitanceF ?? c.fit?.strayCapacitanceF ?? 0;
+		return fitCapacitanceParsed(parseCapacitanceBytes(c.run.fileBytes, s.temperatureC), { excludedV: s.excludedV, strayCapacitanceF: stray }).fit;
+	}
+	if (s.strayCapacitanceF !== undefined)
+		throw new DomainError(400, 'A stray capacitance belongs to a C–V run; this run is an I–V sweep.', [{ path: 'strayCapacitanceF', message: 'not a C–V run' }]);
+	const sweep = parseSweepBytes(c.run.fileBytes, s.temperatureC);
+	return fitParsed(sweep, { material: c.part.material as Material, given: c.part.givenModel }, s.excludedV).fit;
 }
 
-/** A new fit version of the stored file, leaving out `excludeV` (null: every point). */
-export function refit(actor: Who, partId: number, runId: number, input: { excludeV: [number, number] | null; reason: string }) {
-	return amend(actor, partId, runId, 'refit', (c) => ({
-		fit: { fit: fitStored(c, c.run.temperatureC, input.excludeV), cause: 'refit', note: input.reason },
-		audit: { from: { excludedV: c.fit?.excludedV ?? null }, to: { excludedV: input.excludeV }, reason: input.reason }
-	}));
+/** The file's own temperature column, if it has one (then the temperature cannot be corrected). */
+function fileTemperatureColumn(c: Loaded, temperatureC: number): string | undefined {
+	const bytes = c.run.fileBytes;
+	return (c.run.measurement === 'cv' ? parseCapacitanceBytes(bytes, temperatureC) : parseSweepBytes(bytes, temperatureC)).columns.temperature;
+}
+
+/** A new fit version of the stored file, leaving out `excludeV` (null: every point); a C–V run may change its stray capacitance. */
+export function refit(actor: Who, partId: number, runId: number, input: { excludeV: [number, number] | null; reason: string; strayCapacitanceF?: number }) {
+	return amend(actor, partId, runId, 'refit', (c) => {
+		const fit = fitStored(c, { temperatureC: c.run.temperatureC, excludedV: input.excludeV, strayCapacitanceF: input.strayCapacitanceF });
+		const before = c.fit?.strayCapacitanceF ?? null;
+		const stray = input.strayCapacitanceF !== undefined && input.strayCapacitanceF !== before ? { from: { strayCapacitanceF: before }, to: { strayCapacitanceF: input.strayCapacitanceF } } : null;
+		return {
+			fit: { fit, cause: 'refit', note: input.reason },
+			audit: {
+				from: { excludedV: c.fit?.excludedV ?? null, ...stray?.from },
+				to: { excludedV: input.excludeV, ...stray?.to },
+				reason: input.reason
+			}
+		};
+	});
 }
 
 /**
@@ -136,17 +160,17 @@ export function correct(actor: Who, partId: number, runId: number, input: { samp
 		const temperatureC = input.temperatureC !== undefined && input.temperatureC !== c.run.temperatureC ? input.temperatureC : undefined;
 		if (sample === undefined && temperatureC === undefined)
 			throw new DomainError(400, `The run is already sample ${c.unit} at ${c.run.temperatureC} °C; nothing to correct.`, [{ path: 'sample', message: 'same sample and temperature as now' }]);
-		let fit: StoredFit | undefined;
+		let fit: StoredFit | StoredCvFit | undefined;
 		if (temperatureC !== undefined) {
-			const column = parseSweepBytes(c.run.fileBytes, temperatureC).columns.temperature;
+			const column = fileTemperatureColumn(c, temperatureC);
 			if (column)
 				throw new DomainError(422, `The file gives its own temperature in the column “${column}”; that cannot be corrected here. Withdraw the run and upload a corrected file.`, [
 					{ path: 'temperatureC', column, message: 'the file states the temperature' }
 				]);
-			fit = fitStored(c, temperatureC, c.fit?.excludedV ?? null);
+			fit = fitStored(c, { temperatureC, excludedV: c.fit?.excludedV ?? null });
 		} else if (c.fit) {
-			const { model, interval, quality, range, excludedV } = c.fit;
-			fit = { model, interval, quality, range, excludedV };
+			const { model, interval, quality, range, excludedV, strayCapacitanceF } = c.fit;
+			fit = { model, interval, quality, range, excludedV, strayCapacitanceF } as StoredFit | StoredCvFit;
 		}
 		return {
 			set: temperatureC !== undefined ? { temperatureC } : {},
@@ -185,6 +209,7 @@ export async function runDetail(partId: number, runId: number) {
 		quality: f.quality,
 		range: f.range,
 		excludedV: f.excludedV,
+		...(run.measurement === 'cv' ? { strayCapacitanceF: f.strayCapacitanceF ?? 0 } : {}),
 		fittedBy: name(f.fittedBy),
 		createdAt: f.createdAt,
 		supersededAt: f.supersededAt
@@ -196,8 +221,10 @@ export async function runDetail(partId: number, runId: number) {
 		partNumber: part.partNumber,
 		maker: part.maker,
 		sample: unit,
+		measurement: run.measurement,
 		temperatureC: run.temperatureC,
 		direction: run.direction,
+		...(run.measurement === 'cv' ? { frequencyHz: run.frequencyHz, testLevelV: run.testLevelV } : {}),
 		fileName: run.fileName,
 		sha256: run.fileSha256,
 		pointCount: run.points.length,

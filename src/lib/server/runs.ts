@@ -1,197 +1,20 @@
-// Measurement intake: a sweep (CSV bytes or a list of points) is checked, parsed and
-// fitted by the engine before anything is written; then the run, its fit, the part's
-// aggregate model and an audit row are written in one transaction.
-import { createHash } from 'node:crypto';
+// Measurement intake: a sweep (CSV bytes or a list of points, I–V or C–V) is checked,
+// parsed and fitted by the engine before anything is written (run-intake.ts); then the run,
+// its fit, the part's aggregate model and an audit row are written in one transaction.
 import { and, eq } from 'drizzle-orm';
-import {
-	FitError,
-	SweepError,
-	SweepTooLargeError,
-	checkSweepSize,
-	fitSweep,
-	parseSweepCsv,
-	type FitResult,
-	type ParsedSweep
-} from '$lib/junction';
-import { egFor, engineMaterial, toStored } from '$lib/catalogue/models';
 import type { Material } from '$lib/catalogue/vocabulary';
+import type { Measurement } from '$lib/catalogue/capacitance';
 import { DomainError } from './api';
 import { recordAudit } from './audit';
 import { db } from './db';
-import { fits, parts, runs, samples, type FitInterval, type FitRange, type StoredModel, type SweepDirection } from './db/schema';
+import { fits, parts, runs, samples, type SweepDirection } from './db/schema';
 import type { Issue } from './http-error';
 import { rebuildPartModel } from './part-models';
 import { uniqueViolation } from './catalogue';
+import { prepare, type PreparedRun, type RunSettings, type SweepSource } from './run-intake';
 
-/** Largest sweep upload accepted [bytes]: bench files are a few kilobytes to a few hundred. */
-export const UPLOAD_LIMIT_BYTES = 2 * 1024 * 1024;
-/** A file temperature column and a typed temperature may differ by this much [K]. */
-const TEMPERATURE_AGREEMENT_K = 1.5;
-
-export type SweepSource =
-	| { kind: 'file'; fileName: string; bytes: Uint8Array }
-	| { kind: 'points'; fileName?: string; points: { voltageV: number; currentA: number }[] };
-
-export type StoredFit = {
-	model: StoredModel;
-	interval: FitInterval;
-	quality: { points: number; rejected: number; rmsResidualV: number };
-	range: FitRange;
-	excludedV: [number, number] | null;
-};
-
-export type PreparedRun = {
-	fileName: string;
-	bytes: Buffer;
-	sha256: string;
-	temperatureC: number;
-	direction: SweepDirection;
-	/** Merged points as [voltageV, currentA]. */
-	points: [number, number][];
-	columns: ParsedSweep['columns'];
-	fit: StoredFit;
-	warnings: Issue[];
-};
-
-export type FitContext = { material: Material; given?: StoredModel | null };
-
-function sha256(bytes: Uint8Array): string {
-	return createHash('sha256').update(bytes).digest('hex');
-}
-
-/** Points (from JSON) written as a CSV file, so they take the same path and are stored as a file. */
-export function pointsToCsv(points: { voltageV: number; currentA: number }[]): string {
-	return 'V (V),I (A)\n' + points.map((p) => `${p.voltageV},${p.currentA}`).join('\n') + '\n';
-}
-
-/** Engine errors → the API's error with issues naming row and column. */
-function domainFromEngine(e: unknown): never {
-	if (e instanceof SweepTooLargeError)
-		throw new DomainError(413, `The file is ${e.sizeBytes} bytes; sweeps up to ${e.limitBytes} bytes are accepted. Nothing was stored.`);
-	if (e instanceof SweepError)
-		throw new DomainError(422, `The sweep cannot be read: ${e.message.replace(/^sweep rejected: /, '')}. Nothing was stored.`, e.issues);
-	if (e instanceof FitError)
-		throw new DomainError(422, `The sweep was read but cannot be fitted: ${e.reasons.join('; ')}. Nothing was stored.`, e.reasons.map((message) => ({ message })));
-	if (e instanceof RangeError) throw new DomainError(422, `The sweep cannot be fitted: ${e.message}. Nothing was stored.`);
-	throw e;
-}
-
-/** The engine's fit of a parsed single-temperature sweep, in the stored shape. */
-export function fitParsed(sweep: ParsedSweep, ctx: FitContext, excludedV: [number, number] | null = null): { fit: StoredFit; result: FitResult } {
-	let result: FitResult;
-	try {
-		result = fitSweep(sweep, {
-			...(excludedV ? { excludeV: excludedV } : {}),
-			material: engineMaterial(ctx.material),
-			EG: egFor(ctx.material, ctx.given)
-		});
-	} catch (e) {
-		domainFromEngine(e);
-	}
-	const interval: FitInterval = { IS: result.interval.IS, N: result.interval.N, RS: result.interval.RS };
-	if (result.interval.RSH) interval.RSH = result.interval.RSH;
-	const t = result.range.temperatureC;
-	return {
-		result,
-		fit: {
-			model: toStored(result.model),
-			interval,
-			quality: result.quality,
-			range: {
-				currentA: result.range.currentA,
-				voltageV: result.range.voltageV,
-				temperatureC: typeof t === 'number' ? t : t[0],
-				minAbsCurrentA: result.range.minAbsCurrentA,
-				reverseMeasured: result.range.reverseMeasured
-			},
-			excludedV
-		}
-	};
-}
-
-/**
- * Reads sweep bytes (UTF-8 CSV) holding one temperature, at the typed temperature when the
- * file has no temperature column. The same reading serves uploads and later re-fits of the
- * stored file. @throws DomainError 422 naming row and column.
- */
-export function parseSweepBytes(bytes: Uint8Array, temperatureC: number | undefined): ParsedSweep {
-	let text: string;
-	try {
-		text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
-	} catch {
-		throw new DomainError(422, 'The file is not UTF-8 text (is it a spreadsheet or a binary export?). Save the sweep as CSV. Nothing was stored.', [
-			{ message: 'the bytes are not valid UTF-8 text' }
-		]);
-	}
-	let sweep: ParsedSweep;
-	try {
-		sweep = parseSweepCsv(text, { temperatureC });
-	} catch (e) {
-		domainFromEngine(e);
-	}
-	if (sweep.runs.length > 1) {
-		const temps = sweep.runs.map((r) => `${r.temperatureC.toFixed(1)} °C`).join(', ');
-		throw new DomainError(422, `The file holds sweeps at ${temps}; upload one temperature per file. Nothing was stored.`, [
-			{ column: sweep.columns.temperature, message: `several temperatures in one file (${temps})` }
-		]);
-	}
-	return sweep;
-}
-
-/**
- * Checks, parses and fits a sweep without touching the database.
- * @throws DomainError 413 (too large) or 422 (unreadable, implausible or unfittable), with row/column issues.
- */
-export function prepare(
-	source: SweepSource,
-	opts: { temperatureC?: number; excludedV?: [number, number] | null; temperatureDefaulted?: boolean },
-	ctx: FitContext
-): PreparedRun {
-	let bytes: Buffer;
-	let fileName: string;
-	if (source.kind === 'points') {
-		bytes = Buffer.from(pointsToCsv(source.points), 'utf8');
-		fileName = source.fileName ?? 'points.csv';
-	} else {
-		bytes = Buffer.from(source.bytes.buffer, source.bytes.byteOffset, source.bytes.byteLength);
-		fileName = source.fileName.trim() || 'sweep.csv';
-	}
-	try {
-		checkSweepSize(bytes.byteLength, UPLOAD_LIMIT_BYTES);
-	} catch (e) {
-		domainFromEngine(e);
-	}
-	const sweep = parseSweepBytes(bytes, opts.temperatureC);
-	const run = sweep.runs[0];
-	if (sweep.columns.temperature && opts.temperatureC !== undefined && !opts.temperatureDefaulted && Math.abs(run.temperatureC - opts.temperatureC) > TEMPERATURE_AGREEMENT_K) {
-		throw new DomainError(
-			422,
-			`The file says ${run.temperatureC.toFixed(1)} °C but ${opts.temperatureC} °C was entered; correct one of them. Nothing was stored.`,
-			[{ column: sweep.columns.temperature, message: `file temperature ${run.temperatureC.toFixed(1)} °C disagrees with the entered ${opts.temperatureC} °C` }]
-		);
-	}
-	const excludedV = opts.excludedV ?? null;
-	const { fit } = fitParsed(sweep, ctx, excludedV);
-	let neg = false;
-	let pos = false;
-	const points: [number, number][] = [];
-	for (let k = 0; k < run.voltageV.length; k++) {
-		points.push([run.voltageV[k], run.currentA[k]]);
-		if (run.voltageV[k] < 0) neg = true;
-		if (run.voltageV[k] > 0) pos = true;
-	}
-	return {
-		fileName,
-		bytes,
-		sha256: sha256(bytes),
-		temperatureC: Math.round(run.temperatureC * 100) / 100,
-		direction: neg && pos ? 'both' : neg ? 'reverse' : 'forward',
-		points,
-		columns: sweep.columns,
-		fit,
-		warnings: sweep.warnings
-	};
-}
+export { UPLOAD_LIMIT_BYTES, prepare, pointsToCsv, fitParsed, parseSweepBytes } from './run-intake';
+export type { SweepSource, StoredFit, StoredCvFit, PreparedRun, RunSettings } from './run-intake';
 
 async function duplicateOf(sha: string) {
 	const [dup] = await db
@@ -214,12 +37,10 @@ function duplicateError(dup: NonNullable<Awaited<ReturnType<typeof duplicateOf>>
 	);
 }
 
-export type IngestInput = {
+export type IngestInput = RunSettings & {
 	partId: number;
 	sample: string;
 	source: SweepSource;
-	temperatureC?: number;
-	excludedV?: [number, number] | null;
 	/** Parse and fit only: nothing is written (the upload page's preview fit). */
 	dryRun?: boolean;
 };
@@ -228,18 +49,31 @@ export type IngestResult = {
 	id: number | null;
 	partId: number;
 	sample: string;
+	measurement: Measurement;
 	fileName: string;
 	sha256: string;
 	temperatureC: number;
 	direction: SweepDirection;
+	/** C–V runs: the test-signal frequency [Hz] and level [V], when known. */
+	frequencyHz?: number | null;
+	testLevelV?: number | null;
 	pointCount: number;
 	points: [number, number][];
-	columns: ParsedSweep['columns'];
-	fit: StoredFit;
+	columns: PreparedRun['columns'];
+	fit: PreparedRun['fit'];
 	warnings: Issue[];
 	modelVersion: number | null;
 	stored: boolean;
 };
+
+/** The run's row and its fit's row, as one prepared sweep gives them. */
+function rowsOf(p: PreparedRun) {
+	const cv = p.measurement === 'cv';
+	return {
+		run: { measurement: p.measurement, frequencyHz: cv ? p.frequencyHz : null, testLevelV: cv ? p.testLevelV : null },
+		fit: cv ? { ...p.fit } : { ...p.fit, strayCapacitanceF: null }
+	};
+}
 
 /**
  * Ingests one run for a part: the same path for uploads, API calls and the demo seed.
@@ -250,12 +84,16 @@ export async function ingest(actor: { id: string } | null, input: IngestInput): 
 	if (!part) throw new DomainError(404, `No part ${input.partId}.`);
 	const unit = input.sample.trim();
 	if (!/^[\w.#/-]{1,40}$/.test(unit)) throw new DomainError(400, 'The sample label is letters, digits and . # / - (1–40 characters).', [{ path: 'sample', message: 'invalid sample label' }]);
-	const prepared = prepare(input.source, { temperatureC: input.temperatureC, excludedV: input.excludedV }, { material: part.material as Material, given: part.givenModel });
+	const { temperatureC, excludedV, measurement, frequencyHz, testLevelV, strayCapacitanceF } = input;
+	const settings: RunSettings = { temperatureC, excludedV, measurement, frequencyHz, testLevelV, strayCapacitanceF };
+	const prepared = prepare(input.source, settings, { material: part.material as Material, given: part.givenModel });
 	const dup = await duplicateOf(prepared.sha256);
 	if (dup) throw duplicateError(dup);
 	const base = {
 		partId: part.id,
 		sample: unit,
+		measurement: prepared.measurement,
+		...(prepared.measurement === 'cv' ? { frequencyHz: prepared.frequencyHz, testLevelV: prepared.testLevelV } : {}),
 		fileName: prepared.fileName,
 		sha256: prepared.sha256,
 		temperatureC: prepared.temperatureC,
@@ -267,6 +105,7 @@ export async function ingest(actor: { id: string } | null, input: IngestInput): 
 		warnings: prepared.warnings
 	};
 	if (input.dryRun) return { ...base, id: null, modelVersion: null, stored: false };
+	const rows = rowsOf(prepared);
 	try {
 		return await db.transaction(async (tx) => {
 			let [sample] = await tx.select().from(samples).where(and(eq(samples.partId, part.id), eq(samples.unit, unit)));
@@ -288,17 +127,27 @@ export async function ingest(actor: { id: string } | null, input: IngestInput): 
 					fileBytes: prepared.bytes,
 					fileSha256: prepared.sha256,
 					points: prepared.points,
+					...rows.run,
 					uploadedBy: actor?.id ?? null
 				})
 				.returning({ id: runs.id });
-			await tx.insert(fits).values({ runId: run.id, partId: part.id, sampleId: sample.id, ...prepared.fit, fittedBy: actor?.id ?? null });
+			await tx.insert(fits).values({ runId: run.id, partId: part.id, sampleId: sample.id, ...rows.fit, fittedBy: actor?.id ?? null });
 			const modelVersion = await rebuildPartModel(tx, part.id);
 			await recordAudit(tx, {
 				actorId: actor?.id ?? null,
 				action: 'run.ingest',
 				entity: 'run',
 				entityId: run.id,
-				detail: { partId: part.id, sample: unit, fileName: prepared.fileName, sha256: prepared.sha256, temperatureC: prepared.temperatureC, excludedV: prepared.fit.excludedV }
+				detail: {
+					partId: part.id,
+					sample: unit,
+					measurement: prepared.measurement,
+					fileName: prepared.fileName,
+					sha256: prepared.sha256,
+					temperatureC: prepared.temperatureC,
+					excludedV: prepared.fit.excludedV,
+					...(prepared.measurement === 'cv' ? { frequencyHz: prepared.frequencyHz, testLevelV: prepared.testLevelV, strayCapacitanceF: prepared.fit.strayCapacitanceF } : {})
+				}
 			});
 			return { ...base, id: run.id, modelVersion, stored: true };
 		});

@@ -38,5 +38,6 @@ export const catalogueRoutes: RouteCase[] = [
 	{ route: '/parts/import', method: 'POST', path: '/parts/import?/confirm', allow: ['librarian'], kind: 'action', form: { table: '' } },
 	{ route: '/parts/import/sweeps', method: 'GET', path: '/parts/import/sweeps', allow: ['librarian'], kind: 'page' },
 	{ route: '/api/v1/junctions/import', method: 'POST', path: '/api/v1/junctions/import?dryRun=1', allow: ['librarian'], kind: 'api', json: {} },
-	{ route: '/api/v1/fit', method: 'POST', path: '/api/v1/fit', allow: 'any-role', kind: 'api', json: {} }
+	{ route: '/api/v1/fit', method: 'POST', path: '/api/v1/fit', allow: 'any-role', kind: 'api', json: {} },
+	{ route: '/api/v1/fit/capacitance', method: 'POST', path: '/api/v1/fit/capacitance', allow: 'any-role', kind: 'api', json: {} }
 ];

@@ -1,10 +1,34 @@
 import { requirePermission } from '$lib/server/guards';
 import * as catalogue from '$lib/server/catalogue';
+import type { FitInterval, FitQuality, StoredModel } from '$lib/catalogue/models';
+import { capacitanceCurve, capacitanceResiduals, type CapacitanceModel, type CvFitInterval, type CvFitQuality } from '$lib/catalogue/capacitance';
 import { can } from '$lib/permissions';
 import { loadPart } from '$lib/server/model-cache';
 import { spiceBlock, spicePartOf } from '$lib/server/spice';
 import { ivViews, leakageAgainstTemperature, referenceRow } from '$lib/catalogue/sample-curves';
 import type { PageServerLoad } from './$types';
+
+type IvFit = { version: number; model: StoredModel; interval: FitInterval; quality: FitQuality; excludedV: [number, number] | null };
+type CvFit = { version: number; model: CapacitanceModel; interval: CvFitInterval; quality: CvFitQuality; excludedV: [number, number] | null; strayCapacitanceF: number };
+type RunRow = Awaited<ReturnType<typeof catalogue.detailOr404>>['runs'][number];
+
+/** A C–V run as the part page draws it: its points, its fitted curve up to FC·VJ and the residuals in percent. */
+function cvRun(r: RunRow, sample: string) {
+	const fit = r.fit ? ({ ...r.fit, strayCapacitanceF: r.fit.strayCapacitanceF ?? 0 } as CvFit) : null;
+	const vs = r.points.map((p) => p[0]);
+	return {
+		id: r.id,
+		sample,
+		temperatureC: r.temperatureC,
+		frequencyHz: r.frequencyHz,
+		testLevelV: r.testLevelV,
+		fileName: r.fileName,
+		points: r.points,
+		fit,
+		curve: fit ? capacitanceCurve(fit.model, Math.min(...vs), Math.max(...vs)) : [],
+		residuals: fit ? capacitanceResiduals(r.points, fit) : []
+	};
+}
 
 const TEMPS = Array.from({ length: 34 }, (_, k) => -40 + 5 * k); // −40 … +125 °C
 /** Where the aggregate table states leakage: a guarded input at 25 °C, and half the rating hot. */
@@ -17,7 +41,8 @@ export const load: PageServerLoad = async (event) => {
 	const { part, model } = d;
 	const unitOf = new Map(d.samples.map((s) => [s.id, s.unit]));
 	// Withdrawn runs are listed apart: they no longer shape the model or its curves.
-	const active = d.runs.filter((r) => r.state === 'active');
+	const active = d.runs.filter((r) => r.state === 'active' && r.measurement === 'iv');
+	const activeCv = d.runs.filter((r) => r.state === 'active' && r.measurement === 'cv');
 	// The models exactly as the ranking predicts with them (null without a usable model).
 	const { client } = await import('$lib/server/db');
 	const cached = model ? await loadPart(client, id).catch(() => null) : null;
@@ -30,12 +55,13 @@ export const load: PageServerLoad = async (event) => {
 	// Forward and reverse each over their own measured span, every sample's model at every measured temperature.
 	const views = sp ? ivViews(active, sp.samples, sp.typical) : null;
 	return {
-		part: catalogue.present(part, model),
+		part: catalogue.present(part, model, d.capacitance),
 		samples: d.samples,
-		runs: active.map((r) => ({ ...r, sample: unitOf.get(r.sampleId) ?? '?' })),
+		runs: active.map((r) => ({ ...r, sample: unitOf.get(r.sampleId) ?? '?', fit: r.fit as IvFit | null })),
+		cvRuns: activeCv.map((r) => cvRun(r, unitOf.get(r.sampleId) ?? '?')),
 		withdrawn: d.runs
 			.filter((r) => r.state === 'withdrawn')
-			.map((r) => ({ id: r.id, sample: unitOf.get(r.sampleId) ?? '?', temperatureC: r.temperatureC, fileName: r.fileName, at: r.withdrawnAt, reason: r.withdrawnReason ?? '' })),
+			.map((r) => ({ id: r.id, sample: unitOf.get(r.sampleId) ?? '?', measurement: r.measurement, temperatureC: r.temperatureC, fileName: r.fileName, at: r.withdrawnAt, reason: r.withdrawnReason ?? '' })),
 		canShortlist: can(user, 'shortlist:edit'),
 		modelUnits: sp?.samples.map((s) => s.unit) ?? [],
 		leakage,

@@ -13,6 +13,7 @@ import {
 } from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
 import type { RunState } from '../../../run-transitions';
+import type { CapacitanceModel, CvFitInterval, CvFitQuality, CvFitRange, Measurement, PartCapacitance } from '../../../catalogue/capacitance';
 import { users } from './auth';
 import { timestamps } from './columns';
 
@@ -122,8 +123,13 @@ export const runs = pgTable(
 		fileName: text('file_name').notNull(),
 		fileBytes: bytea('file_bytes').notNull(),
 		fileSha256: text('file_sha256').notNull(),
-		/** Parsed, merged points as [voltageV, currentA] pairs. */
+		/** I–V (current) or C–V (capacitance) sweep. */
+		measurement: text('measurement').$type<Measurement>().notNull().default('iv'),
+		/** Parsed, merged points as [voltageV, currentA] pairs (C–V: [voltageV, capacitanceF]). */
 		points: jsonb('points').$type<[number, number][]>().notNull(),
+		/** C–V runs: the test-signal frequency [Hz] and level [V rms], when stated. */
+		frequencyHz: doublePrecision('frequency_hz'),
+		testLevelV: doublePrecision('test_level_v'),
 		uploadedBy: text('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
 		/** Whether the run counts toward the part's model (src/lib/run-transitions.ts). */
 		state: text('state').$type<RunState>().notNull().default('active'),
@@ -176,12 +182,15 @@ export const fits = pgTable(
 		sampleId: integer('sample_id')
 			.notNull()
 			.references(() => samples.id, { onDelete: 'cascade' }),
-		model: jsonb('model').$type<StoredModel>().notNull(),
-		interval: jsonb('interval').$type<FitInterval>().notNull(),
-		quality: jsonb('quality').$type<FitQuality>().notNull(),
-		range: jsonb('range').$type<FitRange>().notNull(),
+		/** The run's measurement says which: a Shockley model (I–V) or depletion parameters (C–V). */
+		model: jsonb('model').$type<StoredModel | CapacitanceModel>().notNull(),
+		interval: jsonb('interval').$type<FitInterval | CvFitInterval>().notNull(),
+		quality: jsonb('quality').$type<FitQuality | CvFitQuality>().notNull(),
+		range: jsonb('range').$type<FitRange | CvFitRange>().notNull(),
 		/** Voltage window left out of the fit by a librarian's correction, if any. */
 		excludedV: jsonb('excluded_v').$type<[number, number] | null>(),
+		/** C–V fits: the stray (fixture) capacitance subtracted before fitting [F]. */
+		strayCapacitanceF: doublePrecision('stray_capacitance_f'),
 		fittedBy: text('fitted_by').references(() => users.id, { onDelete: 'set null' }),
 		/** 1 for the upload's fit, then one more for each re-fit or correction of the run. */
 		version: integer('version').notNull().default(1),
@@ -227,5 +236,18 @@ export const partModels = pgTable('part_models', {
 	/** False when the model came from a card or datasheet and no runs back it. */
 	isMeasured: boolean('is_measured').notNull(),
 	version: integer('version').notNull(),
+	...timestamps
+});
+
+/** Each part's junction capacitance as predictions use it: the median over its samples' C–V
+ *  fits, or a given card's CJO/VJ/M. Rebuilt with part_models; absent when neither exists. */
+export const partCapacitance = pgTable('part_capacitance', {
+	partId: integer('part_id')
+		.primaryKey()
+		.references(() => parts.id, { onDelete: 'cascade' }),
+	source: text('source').$type<PartCapacitance['source']>().notNull(),
+	typical: jsonb('typical').$type<PartCapacitance['typical']>().notNull(),
+	spread: jsonb('spread').$type<PartCapacitance['spread']>().notNull().default({}),
+	samples: jsonb('samples').$type<PartCapacitance['samples']>().notNull().default([]),
 	...timestamps
 });

@@ -16,5 +16,5 @@ export const POST = endpoint(async (event) => {
 	const input = await readJson(event, partInput);
 	const part = await catalogue.create(user, input);
 	const d = await catalogue.detail(part.id);
-	return json(catalogue.present(part, d?.model ?? null), { status: 201 });
+	return json(catalogue.present(part, d?.model ?? null, d?.capacitance ?? null), { status: 201 });
 });

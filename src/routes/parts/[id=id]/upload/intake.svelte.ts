@@ -1,16 +1,23 @@
 // One file on the upload page: its preview (parsed in the browser with the engine's CSV
-// reader), its upload and fit state, and the server's answer.
-import { parseSweepCsv, SweepError, type ParsedSweep } from '$lib/junction';
+// readers, I–V or C–V as the header says or the librarian chooses), its upload and fit
+// state, and the server's answer.
+import { parseCapacitanceCsv, parseSweepCsv, sweepKindOf, SweepError, type ParsedCapacitanceSweep, type ParsedSweep } from '$lib/junction';
 import type { DataIssue } from '$lib/junction';
 import { readQuantity } from '$lib/quantity';
+import type { Measurement, StoredCvFit } from '$lib/catalogue/capacitance';
 
-export type FitAnswer = {
+type AnswerCommon = {
 	id: number | null;
 	sample: string;
 	fileName: string;
 	temperatureC: number;
 	direction: string;
 	points: [number, number][];
+	warnings: DataIssue[];
+	stored: boolean;
+};
+export type IvAnswer = AnswerCommon & {
+	measurement: 'iv';
 	fit: {
 		model: Record<string, number>;
 		interval: Record<string, [number, number]>;
@@ -18,9 +25,15 @@ export type FitAnswer = {
 		range: { currentA: [number, number]; voltageV: [number, number] };
 		excludedV: [number, number] | null;
 	};
-	warnings: DataIssue[];
-	stored: boolean;
 };
+export type CvAnswer = AnswerCommon & { measurement: 'cv'; fit: StoredCvFit; frequencyHz: number | null; testLevelV: number | null };
+export type FitAnswer = IvAnswer | CvAnswer;
+
+/** The browser's reading of a file: the engine's parse, or its complaint. */
+export type Preview =
+	| { measurement: 'iv'; sweep: ParsedSweep; issues: DataIssue[]; needsTemperature: false }
+	| { measurement: 'cv'; sweep: ParsedCapacitanceSweep; issues: DataIssue[]; needsTemperature: false }
+	| { measurement: Measurement; sweep: null; issues: DataIssue[]; needsTemperature: boolean };
 
 /**
  * reading: the browser is reading the file; ready: waiting for Fit (a temperature is
@@ -54,6 +67,11 @@ export class Intake {
 	assumedTemperature = $state(false);
 	/** Sample, temperature and window the shown fit was made with. */
 	fittedWith = $state<string | null>(null);
+	/** 'auto': as the header says (I–V when it cannot tell). */
+	choice = $state<Measurement | 'auto'>('auto');
+	frequency = $state('');
+	level = $state('');
+	stray = $state('');
 
 	constructor(file: File, sample: string) {
 		this.file = file;
@@ -67,7 +85,8 @@ export class Intake {
 
 	/** What a fit is made with now; when it differs from `fittedWith`, the fit on screen is out of date. */
 	get settings(): string {
-		return [this.sample.trim(), this.temperature.trim(), this.excludeFrom.trim(), this.excludeTo.trim()].join('|');
+		const cv = this.measurement === 'cv' ? [this.frequency, this.level, this.stray] : [];
+		return [this.measurement, this.sample, this.temperature, this.excludeFrom, this.excludeTo, ...cv].map((x) => x.trim()).join('|');
 	}
 
 	get stale(): boolean {
@@ -79,19 +98,46 @@ export class Intake {
 		return readQuantity(this.temperature, 'temperature');
 	}
 
+	/** What the header says the file is, or null when it cannot tell. */
+	get detected(): Measurement | null {
+		return this.text ? sweepKindOf(this.text) : null;
+	}
+
+	/** The measurement the file is read and sent as. */
+	get measurement(): Measurement {
+		return this.choice === 'auto' ? (this.detected ?? 'iv') : this.choice;
+	}
+
 	/** The engine's reading of the file (or its complaint), with the entered temperature if any. */
-	get preview(): { sweep: ParsedSweep | null; issues: DataIssue[]; needsTemperature: boolean } {
-		if (!this.read) return { sweep: null, issues: [], needsTemperature: false };
+	get preview(): Preview {
+		const measurement = this.measurement;
+		if (!this.read) return { measurement, sweep: null, issues: [], needsTemperature: false };
 		const t = this.temperatureReading;
+		const opts = { temperatureC: t?.ok ? t.value : undefined };
 		try {
-			return { sweep: parseSweepCsv(this.text, { temperatureC: t?.ok ? t.value : undefined }), issues: [], needsTemperature: false };
+			if (measurement === 'cv') return { measurement, sweep: parseCapacitanceCsv(this.text, opts), issues: [], needsTemperature: false };
+			return { measurement, sweep: parseSweepCsv(this.text, opts), issues: [], needsTemperature: false };
 		} catch (e) {
 			if (e instanceof SweepError) {
 				const needs = e.issues.some((i) => /temperature/.test(i.message) && i.row === undefined);
-				return { sweep: null, issues: e.issues, needsTemperature: needs };
+				return { measurement, sweep: null, issues: e.issues, needsTemperature: needs };
 			}
-			return { sweep: null, issues: [{ message: (e as Error).message }], needsTemperature: false };
+			return { measurement, sweep: null, issues: [{ message: (e as Error).message }], needsTemperature: false };
 		}
+	}
+
+	/** The form fields the upload sends besides the file. */
+	fields(): Record<string, string> {
+		const f: Record<string, string> = { sample: this.sample.trim() };
+		if (this.temperature.trim()) f.temperatureC = this.temperature.trim();
+		if (this.excludeFrom.trim() || this.excludeTo.trim()) (f.excludeFromV = this.excludeFrom.trim()), (f.excludeToV = this.excludeTo.trim());
+		f.measurement = this.measurement;
+		if (this.measurement === 'cv') {
+			if (this.frequency.trim()) f.frequencyHz = this.frequency.trim();
+			if (this.level.trim()) f.testLevelV = this.level.trim();
+			if (this.stray.trim()) f.strayCapacitanceF = this.stray.trim();
+		}
+		return f;
 	}
 }
 

@@ -8,13 +8,15 @@ async function full(id: number) {
 	const d = await catalogue.detailOr404(id);
 	const unitOf = new Map(d.samples.map((s) => [s.id, s.unit]));
 	return {
-		...catalogue.present(d.part, d.model),
+		...catalogue.present(d.part, d.model, d.capacitance),
 		samples: d.samples.map((s) => ({ id: s.id, unit: s.unit, lot: s.lot, dateCode: s.dateCode })),
 		runs: d.runs.map((r) => ({
 			id: r.id,
 			sample: unitOf.get(r.sampleId),
+			measurement: r.measurement,
 			temperatureC: r.temperatureC,
 			direction: r.direction,
+			...(r.measurement === 'cv' ? { frequencyHz: r.frequencyHz, testLevelV: r.testLevelV } : {}),
 			fileName: r.fileName,
 			sha256: r.sha256,
 			pointCount: r.points.length,

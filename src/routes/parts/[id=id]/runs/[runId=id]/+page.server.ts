@@ -3,7 +3,8 @@ import { requirePermission } from '$lib/server/guards';
 import { DomainError } from '$lib/server/api';
 import * as catalogue from '$lib/server/catalogue';
 import * as runChanges from '$lib/server/run-changes';
-import { currentMagnitude } from '$lib/catalogue/models';
+import { currentMagnitude, type StoredModel } from '$lib/catalogue/models';
+import { capacitanceCurve, capacitanceResiduals, type CapacitanceModel } from '$lib/catalogue/capacitance';
 import { availableRunActions } from '$lib/run-transitions';
 import { correctionFromForm, reinstateSchema, refitFromForm, withdrawSchema } from '$lib/schemas/runs';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
@@ -19,16 +20,21 @@ export const load: PageServerLoad = async (event) => {
 	const vs = run.points.map((p) => p[0]);
 	const lo = Math.min(...vs);
 	const hi = Math.max(...vs);
-	const curves = run.fits.slice(0, 3).map((f) => ({
-		version: f.version,
-		current: f.current,
-		points: Array.from({ length: 121 }, (_, k) => lo + ((hi - lo) * k) / 120)
-			.map((v) => ({ x: v, y: currentMagnitude(f.model, part!.material, v, f.range.temperatureC) }))
-			.filter((p) => p.y > 0)
-	}));
+	const cv = run.measurement === 'cv';
+	const curve = (model: StoredModel | CapacitanceModel, t: number) =>
+		cv
+			? capacitanceCurve(model as CapacitanceModel, lo, hi, 121)
+			: Array.from({ length: 121 }, (_, k) => lo + ((hi - lo) * k) / 120)
+					.map((v) => ({ x: v, y: currentMagnitude(model as StoredModel, part!.material, v, t) }))
+					.filter((p) => p.y > 0);
+	const curves = run.fits.slice(0, 3).map((f) => ({ version: f.version, current: f.current, points: curve(f.model, f.range.temperatureC) }));
+	const fit = run.fit;
+	const residuals =
+		cv && fit ? capacitanceResiduals(run.points, { model: fit.model as CapacitanceModel, excludedV: fit.excludedV, strayCapacitanceF: fit.strayCapacitanceF ?? 0 }) : [];
 	return {
 		run,
 		curves,
+		residuals,
 		partModelVersion: part!.modelVersion,
 		actions: availableRunActions(user, run.state)
 	};
@@ -83,9 +89,9 @@ export const actions: Actions = {
 	reinstate: action('reinstate', ['reason'] as const, reasonOnly(reinstateSchema), runChanges.reinstate, () => 'The run counts again.'),
 	refit: action(
 		'refit',
-		['fromV', 'toV', 'reason'] as const,
+		['fromV', 'toV', 'stray', 'reason'] as const,
 		refitFromForm,
-		(user, partId, runId, input) => runChanges.refit(user, partId, runId, { excludeV: input.excludeV ?? null, reason: input.reason }),
+		(user, partId, runId, input) => runChanges.refit(user, partId, runId, { excludeV: input.excludeV ?? null, reason: input.reason, strayCapacitanceF: input.strayCapacitanceF }),
 		(r) => `Fit version ${r.fit?.version} made.`
 	),
 	correct: action('correct', ['sample', 'temperature', 'reason'] as const, correctionFromForm, runChanges.correct, (r) => `Correction recorded as fit version ${r.fit?.version}.`)

@@ -93,9 +93,14 @@ test('a C–V file is read, fitted with its stray, stored, drawn on the part pag
 	await expect(card).toContainText('Capacitance column');
 	await expect(card).toContainText('Cp (pF)');
 	await expect(card).toContainText('1 MHz');
-	await card.getByLabel('Stray capacitance').fill('0.3 pF');
-	await card.getByRole('button', { name: 'Fit', exact: true }).click();
+	// Fitted as it arrives, with no stray; the stray typed afterwards makes that fit out of date.
 	await expect(card).toHaveAttribute('data-phase', 'fitted');
+	await card.getByLabel('Stray capacitance').fill('0.3 pF');
+	await expect(card.getByTestId('phase')).toHaveText('changed since the fit: fit again');
+	await expect(card.getByRole('button', { name: 'Accept and store' })).toBeDisabled();
+	await card.getByRole('button', { name: 'Fit again', exact: true }).click();
+	await expect(card).toHaveAttribute('data-phase', 'fitted');
+	await expect(card.getByTestId('phase')).toHaveText('fitted: accept or discard');
 	const result = card.getByTestId('fit-result');
 	await expect(result).toContainText('CJO');
 	// The junction's own CJO, the fixture's 0.3 pF subtracted: 2.2 pF as generated.

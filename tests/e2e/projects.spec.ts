@@ -111,7 +111,7 @@ test('a shortlist goes from designer to lead, is sent back, resubmitted and appr
 	await page.getByRole('link', { name: 'Printable review record' }).click();
 	await expect(page.getByRole('heading', { name: 'Predictions at the decision' })).toBeVisible();
 	await expect(page.getByText('Approved for rev B.')).toBeVisible();
-	await expect(page.getByText(/guarding matters/)).toBeVisible();
+	await expect(page.getByText(/guarding and clean, dry assembly matter/)).toBeVisible();
 	await screenshot(page, 'project-record');
 	await page.emulateMedia({ media: 'print' });
 	await expect(page.getByRole('button', { name: 'Print this record' })).toBeHidden();

@@ -186,7 +186,7 @@ describe('shortlist and review', () => {
 		expect(rest).toEqual([]);
 		const record = await browse(`/projects/${id}/export/record`, { as: 'designer' });
 		expect(record.text).toContain('Approved for the rev B board.');
-		expect(record.text).toContain('guarding matters');
+		expect(record.text).toContain('guarding and clean, dry assembly matter');
 		expect(record.text).toContain('licensed practice');
 		// The record carries each part's parameters and the card the .lib has for it.
 		expect(record.text).toContain('Models and SPICE cards as they stood');

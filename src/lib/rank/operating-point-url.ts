@@ -90,6 +90,9 @@ const TEXT_PARAMS: [Exclude<FieldName, 'overRating' | 'kinds' | 'lifecycles' | '
 	['confidence', 'conf']
 ];
 
+/** A field's query parameter, for messages about an address (`v`, `thi`, …). */
+export const FIELD_PARAM: Partial<Record<FieldName, string>> = Object.fromEntries(TEXT_PARAMS);
+
 /** Query parameter names the operating point uses (others, e.g. ids, are left alone). */
 export const OP_PARAM_NAMES = [...TEXT_PARAMS.map(([, p]) => p), 'over', 'kind', 'life', 'basis'];
 

@@ -59,6 +59,38 @@ print(json.dumps([[{"t": type(c.value).__name__, "v": c.value} for c in row] for
 	});
 });
 
+// An export that states its context first (the ranking's operating point), as a person reads it.
+const WITH_PREAMBLE: Sheet = { ...SHEET, preamble: ['Operating point: −5 V, 25 °C to 85 °C', 'Ranked by statistical bound (95 % of parts, 90 % confidence)'] };
+
+describe('a preamble above the table', () => {
+	it('CSV: each line in the first cell, a blank line, then the header and unit rows', () => {
+		const rows = Papa.parse<string[]>(writeCsv(WITH_PREAMBLE).slice(1), { skipEmptyLines: false }).data;
+		expect(rows[0]).toEqual([WITH_PREAMBLE.preamble![0]]);
+		expect(rows[1]).toEqual([WITH_PREAMBLE.preamble![1]]);
+		expect(rows[2]).toEqual(['']);
+		expect(rows[3]).toEqual(SHEET.columns.map((c) => c.label));
+		expect(rows[4]).toEqual(SHEET.columns.map((c) => c.unit));
+		expect(Number(rows[5][1])).toBe(3.2e-15);
+	});
+
+	it(".xlsx: the same rows read by python3-openpyxl, the panes frozen under the unit row", async () => {
+		const dir = mkdtempSync(join(tmpdir(), 'sheet-'));
+		const file = join(dir, 'preamble.xlsx');
+		writeFileSync(file, await writeXlsx(WITH_PREAMBLE));
+		const script = `import json, sys, openpyxl
+ws = openpyxl.load_workbook(sys.argv[1]).worksheets[0]
+print(json.dumps({"freeze": ws.freeze_panes, "rows": [[c.value for c in row] for row in ws.iter_rows()]}))`;
+		const out = JSON.parse(execFileSync('/usr/bin/python3', ['-c', script, file], { encoding: 'utf8' })) as { freeze: string; rows: unknown[][] };
+		expect(out.rows[0][0]).toBe(WITH_PREAMBLE.preamble![0]);
+		expect(out.rows[1][0]).toBe(WITH_PREAMBLE.preamble![1]);
+		expect(out.rows[2].every((v) => v === null)).toBe(true);
+		expect(out.rows[3]).toEqual(SHEET.columns.map((c) => c.label));
+		expect(out.rows[5][1]).toBe(3.2e-15);
+		// Two preamble lines, the blank row, header and units: the data start on row 6.
+		expect(out.freeze).toBe('A6');
+	});
+});
+
 describe('CSV', () => {
 	it('writes a header row, a unit row and numbers that parse back to the same double', () => {
 		const text = writeCsv(SHEET);

@@ -1,12 +1,17 @@
 // Tables in and out of files a spreadsheet opens: CSV (papaparse) and .xlsx (exceljs).
-// Numbers stay numbers, in SI base units; the second row of an export names each column's unit.
+// Numbers stay numbers, in SI base units; the row under the header names each column's unit.
+// An export may state its context first (the ranking's operating point): those lines, one
+// cell each, and a blank row come before the header.
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import type { Cell, Table } from '$lib/catalogue/parts-list';
 import { DomainError } from './api';
 
-/** An export: columns with their unit ('' for none) and rows of plain values. */
-export type Sheet = { name: string; columns: { label: string; unit: string }[]; rows: (string | number | null)[][] };
+/** An export: lines stated above the table, columns with their unit ('' for none) and rows of plain values. */
+export type Sheet = { name: string; preamble?: string[]; columns: { label: string; unit: string }[]; rows: (string | number | null)[][] };
+
+/** The preamble's rows: each line in the first cell, then a blank row (none without a preamble). */
+const preambleRows = (sheet: Sheet): string[][] => (sheet.preamble?.length ? [...sheet.preamble.map((l) => [l]), []] : []);
 
 export const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
 export type SheetFormat = 'csv' | 'xlsx';
@@ -67,17 +72,19 @@ export async function readTable(bytes: Uint8Array): Promise<Table> {
 	return isZip(bytes) ? readXlsx(bytes) : readCsv(bytes);
 }
 
-/** CSV with a header row and a unit row; numbers written in full (shortest round-trip form). */
+/** CSV with the preamble, a header row and a unit row; numbers written in full (shortest round-trip form). */
 export function writeCsv(sheet: Sheet): string {
-	const data = [sheet.columns.map((c) => c.label), sheet.columns.map((c) => c.unit), ...sheet.rows.map((r) => r.map((v) => (v === null ? '' : v)))];
+	const data = [...preambleRows(sheet), sheet.columns.map((c) => c.label), sheet.columns.map((c) => c.unit), ...sheet.rows.map((r) => r.map((v) => (v === null ? '' : v)))];
 	return '\uFEFF' + Papa.unparse(data, { newline: '\r\n', escapeFormulae: true }) + '\r\n';
 }
 
-/** .xlsx with a bold header row, an italic unit row, frozen above the data; number cells are numbers. */
+/** .xlsx with the preamble, a bold header row, an italic unit row, frozen above the data; number cells are numbers. */
 export async function writeXlsx(sheet: Sheet): Promise<Uint8Array> {
 	const wb = new ExcelJS.Workbook();
 	wb.creator = 'Junctionary';
-	const ws = wb.addWorksheet(sheet.name.slice(0, 31), { views: [{ state: 'frozen', ySplit: 2 }] });
+	const above = preambleRows(sheet);
+	const ws = wb.addWorksheet(sheet.name.slice(0, 31), { views: [{ state: 'frozen', ySplit: above.length + 2 }] });
+	for (const line of above) ws.addRow(line);
 	ws.addRow(sheet.columns.map((c) => c.label)).font = { bold: true };
 	ws.addRow(sheet.columns.map((c) => c.unit || null)).font = { italic: true };
 	for (const r of sheet.rows) ws.addRow(r);

@@ -6,6 +6,7 @@ export const rankingRoutes: RouteCase[] = [
 	{ route: '/rank', method: 'GET', path: '/rank?v=-5&thi=25', allow: 'any-role', kind: 'page' },
 	{ route: '/rank', method: 'POST', path: '/rank?/savePreset', allow: 'any-role', kind: 'action', form: { name: '', query: 'v=-5&thi=25' } },
 	{ route: '/rank', method: 'POST', path: '/rank?/deletePreset', allow: 'any-role', kind: 'action', form: { id: '999999' } },
+	{ route: '/rank/export', method: 'GET', path: '/rank/export?v=-5&thi=25&format=csv', allow: 'any-role', kind: 'page' },
 	{ route: '/rank/compare', method: 'GET', path: '/rank/compare?ids=1,2&v=-5&thi=25', allow: 'any-role', kind: 'page' },
 	{ route: '/api/v1/rank', method: 'POST', path: '/api/v1/rank', allow: 'any-role', kind: 'api', json: op },
 	{

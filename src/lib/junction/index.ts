@@ -74,3 +74,13 @@ export type {
 	BoundTerms,
 	Evidence
 } from './rank';
+export { NODE, GUARD, RAIL_NAME, MAX_RAILS, MAX_POSITIONS, NodeError, networkIssues, checkNetwork, terminalVoltage, biasAt, biasRange, leavingSign, farTerminal } from './node';
+export type { NodeNetwork, Placement, NodePosition, NodeIssue, Terminal } from './node';
+export { NodeCircuit, DEFAULT_GRID_POINTS, MIN_GRID_POINTS, MAX_GRID_POINTS } from './node-evaluate';
+export type { NodeEvaluation, NodePoint, NodeExtreme, NodeWorst, NoiseExtreme, PositionAtWorst } from './node-evaluate';
+export { faultExcursion, UNCLAMPED_BEYOND_V } from './fault';
+export type { FaultExcursion } from './fault';
+export { noisePower, noiseDensity, noiseIsApproximate, NOISE_APPROXIMATION_NOTE } from './noise';
+export { evenGrid, refineMaximum } from './maximize';
+export { NODE_PRESETS, NODE_PRESET_KEYS } from './node-presets';
+export type { NodePreset, NodePresetKey } from './node-presets';

@@ -84,3 +84,7 @@ export { noisePower, noiseDensity, noiseIsApproximate, NOISE_APPROXIMATION_NOTE 
 export { evenGrid, refineMaximum } from './maximize';
 export { NODE_PRESETS, NODE_PRESET_KEYS } from './node-presets';
 export type { NodePreset, NodePresetKey } from './node-presets';
+export { summarizeNode } from './node-summary';
+export type { NodeSummary, NodeSummaryOptions, FaultAtEnds } from './node-summary';
+export { nodeFlags, NODE_FLAG_CODES, NODE_FLAG_WORDS, NODE_LIMIT_FLAGS, CONDUCTING_NVT, ERROR_SHIFT_FRACTION } from './node-limits';
+export type { NodeLimits, NodeFlagCode, NodeFigures } from './node-limits';

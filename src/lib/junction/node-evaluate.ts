@@ -120,6 +120,19 @@ export class NodeCircuit {
 		this.noise = new Float64Array(most);
 	}
 
+	/**
+	 * The largest forward bias any sample of any position sees over the signal range at the
+	 * hot end, in units of that sample's N·Vt (≤ 0 when every junction stays reverse-biased).
+	 */
+	largestForwardBias(): number {
+		let most = -Infinity;
+		this.positions.forEach((p, k) => {
+			const top = biasRange(this.net, p)[1];
+			for (const s of this.scaled[1][k]) most = Math.max(most, top / s.nvt);
+		});
+		return most;
+	}
+
 	/** The scaled sample models of a position at a temperature end (0 cold, 1 hot). */
 	scaledAt(end: 0 | 1, position: number): readonly ScaledJunction[] {
 		return this.scaled[end][position];

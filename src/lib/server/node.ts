@@ -1,0 +1,140 @@
+/**
+ * The protected node over HTTP: a request's junctions resolved into engine positions (a
+ * catalogue part's measured samples from the in-memory model cache, or an inline model),
+ * evaluated by the engine (src/lib/junction/node-summary.ts) and written in the API's shape.
+ */
+import {
+	createModel,
+	NodeCircuit,
+	NodeError,
+	NOISE_APPROXIMATION_NOTE,
+	summarizeNode,
+	type FaultAtEnds,
+	type NodePosition,
+	type NodeSummary
+} from '$lib/junction';
+import { networkOf, type FaultOut, type NodeJunctionInput, type NodeRequest, type NodeResponse } from '$lib/schemas/node';
+import { DomainError } from './api';
+import { modelCache, type CacheSnapshot, type CachedPart } from './model-cache';
+
+/** An engine position with the part it came from (null for an inline model or an empty candidate slot). */
+export type ResolvedPosition = NodePosition & { part: CachedPart | null; label: string | null };
+
+type NodeShape = Omit<NodeRequest, 'junctions'> & { junctions: NodeJunctionInput[] };
+
+/**
+ * Engine positions for a request's junctions; candidate positions take `candidate`.
+ * @throws DomainError 422 naming the junction whose part is unknown or whose model is unusable.
+ */
+export function resolvePositions(junctions: NodeJunctionInput[], snap: CacheSnapshot, candidate?: CachedPart): ResolvedPosition[] {
+	return junctions.map((j, i) => {
+		const base = { anode: j.anode, cathode: j.cathode, label: j.label ?? null };
+		if (j.candidate) {
+			if (!candidate) throw new DomainError(422, `junctions[${i}] is a candidate position, with no part to fill it.`, [{ path: `junctions.${i}`, message: 'No part.' }]);
+			return { ...base, samples: candidate.record.samples, part: candidate };
+		}
+		if (j.id !== undefined) {
+			const k = snap.indexOf.get(j.id);
+			if (k === undefined)
+				throw new DomainError(422, `junctions[${i}]: the catalogue has no part ${j.id} with a usable model.`, [{ path: `junctions.${i}.id`, message: `No part ${j.id} with a usable model.` }]);
+			const part = snap.parts[k];
+			return { ...base, samples: part.record.samples, part };
+		}
+		try {
+			const { material, ...params } = j.model!;
+			return { ...base, samples: [createModel(params, material)], part: null };
+		} catch (e) {
+			const message = (e as Error).message;
+			throw new DomainError(422, `junctions[${i}]: the model is not usable: ${message}.`, [{ path: `junctions.${i}.model`, message }]);
+		}
+	});
+}
+
+/** The engine's circuit for a node and its positions. @throws DomainError 422 for what the engine refuses. */
+export function circuitOf(node: NodeShape, positions: ResolvedPosition[]): NodeCircuit {
+	try {
+		return new NodeCircuit(networkOf(node), positions);
+	} catch (e) {
+		if (e instanceof NodeError) throw new DomainError(422, e.message, e.issues);
+		if (e instanceof RangeError) throw new DomainError(422, `The node cannot be evaluated: ${e.message}.`);
+		throw e;
+	}
+}
+
+/** A node's figures against its own limits. */
+export function summaryOf(node: NodeShape, circuit: NodeCircuit, gridPoints?: number): NodeSummary {
+	return summarizeNode(circuit, {
+		gridPoints: gridPoints ?? node.gridPoints,
+		...(node.sourceResistanceOhm !== undefined ? { sourceResistanceOhm: node.sourceResistanceOhm } : {}),
+		...(node.faultCurrentA !== undefined ? { faultCurrentA: node.faultCurrentA } : {}),
+		limits: {
+			...(node.maxNetCurrentA !== undefined ? { maxNetCurrentA: node.maxNetCurrentA } : {}),
+			...(node.allowedErrorV !== undefined ? { allowedErrorV: node.allowedErrorV } : {}),
+			...(node.maxNoiseA_rtHz !== undefined ? { maxNoiseA_rtHz: node.maxNoiseA_rtHz } : {}),
+			...(node.maxExcursionV !== undefined ? { maxExcursionV: node.maxExcursionV } : {})
+		}
+	});
+}
+
+function faultOut(f: FaultAtEnds): FaultOut {
+	return {
+		direction: f.direction,
+		excursionV: { cold: f.worst[0].excursionV, hot: f.worst[1].excursionV },
+		typicalV: { cold: f.typical[0].excursionV, hot: f.typical[1].excursionV },
+		clampedTo: f.worst[1].clampedTo ?? f.worst[0].clampedTo,
+		nodeV: { cold: f.worst[0].nodeV, hot: f.worst[1].nodeV }
+	};
+}
+
+/** The API's answer for a summary (NodeResponse in $lib/schemas/node). */
+export function nodeResponse(s: NodeSummary, positions: ResolvedPosition[]): NodeResponse {
+	const ev = s.evaluation;
+	return {
+		worst: {
+			netCurrentA: ev.worst.netCurrentA,
+			signalV: ev.worst.signalV,
+			temperatureC: ev.worst.temperatureC,
+			samples: ev.worst.samples.map((sample, position) => ({ position, sample }))
+		},
+		typical: { ...ev.typical },
+		errorVoltageV: s.errorVoltageV,
+		typicalErrorVoltageV: s.typicalErrorVoltageV,
+		noise: {
+			densityA_rtHz: ev.noise.worst.densityA_rtHz,
+			signalV: ev.noise.worst.signalV,
+			temperatureC: ev.noise.worst.temperatureC,
+			typicalA_rtHz: ev.noise.typical.densityA_rtHz,
+			approximate: ev.noise.approximate,
+			note: NOISE_APPROXIMATION_NOTE
+		},
+		fault: s.fault && s.oppositeFault ? { ...faultOut(s.fault), opposite: faultOut(s.oppositeFault) } : null,
+		curve: Array.from(ev.signalV, (signalV, i) => ({
+			signalV,
+			netCurrentA: { cold: ev.typicalA[0][i], hot: ev.typicalA[1][i] },
+			worstA: { cold: ev.worstA[0][i], hot: ev.worstA[1][i] }
+		})),
+		junctions: positions.map((p, position) => ({
+			position,
+			label: p.label,
+			anode: p.anode,
+			cathode: p.cathode,
+			id: p.part?.id ?? null,
+			partNumber: p.part?.partNumber ?? null,
+			samples: p.samples.length,
+			biasRangeV: ev.positions[position].biasRangeV,
+			currentAtWorstA: ev.positions[position].currentA,
+			noiseA_rtHz: ev.positions[position].noiseA_rtHz
+		})),
+		coldC: ev.coldC,
+		hotC: ev.hotC,
+		flags: s.flags,
+		meetsLimits: s.meetsLimits
+	};
+}
+
+/** POST /api/v1/node: a node whose junctions are all given. */
+export async function evaluateNode(req: NodeRequest): Promise<NodeResponse> {
+	const snap = (await modelCache()).snapshot;
+	const positions = resolvePositions(req.junctions, snap);
+	return nodeResponse(summaryOf(req, circuitOf(req, positions)), positions);
+}

@@ -1,0 +1,13 @@
+import type { RouteCase } from './types';
+
+// The protected node's screen and API: every signed-in person with a role ('rank:use');
+// saving a node to a project is a shortlist edit (designers).
+const node = {
+	rails: { VPOS: 5, VNEG: -5 },
+	signalRangeV: [-2, 2],
+	temperatureC: 25,
+	junctions: [{ model: { IS: 1e-14, N: 1 }, anode: 'node', cathode: 'VPOS' }]
+};
+export const nodeRoutes: RouteCase[] = [
+	{ route: '/api/v1/node', method: 'POST', path: '/api/v1/node', allow: 'any-role', kind: 'api', json: node }
+];

@@ -29,6 +29,10 @@ const railPair = {
 async function node(body: unknown) {
 	return api<NodeResponse>('POST', '/api/v1/node', { as: 'designer', json: body });
 }
+type Refusal = { error: { code: string; message: string; issues: { path: string; message: string }[] } };
+async function refused(body: unknown) {
+	return api<Refusal>('POST', '/api/v1/node', { as: 'designer', json: body });
+}
 
 describe('POST /api/v1/node with inline models', () => {
 	test('answers the worst and typical net current, error voltage, noise, fault and curve', async () => {
@@ -118,7 +122,7 @@ describe('POST /api/v1/node with catalogue parts', () => {
 	});
 
 	test('refuses a part the catalogue does not have, naming the junction', async () => {
-		const r = await node({ ...railPair, junctions: [{ id: 2_000_000_000, anode: 'node', cathode: 'VPOS' }] });
+		const r = await refused({ ...railPair, junctions: [{ id: 2_000_000_000, anode: 'node', cathode: 'VPOS' }] });
 		expect(r.status).toBe(422);
 		expect(r.body.error.issues[0].path).toBe('junctions.0.id');
 	});
@@ -141,10 +145,10 @@ describe('POST /api/v1/node refuses what cannot be evaluated', () => {
 	];
 	for (const [what, body, path] of cases)
 		test(`400 for ${what}, naming ${path || 'the body'}`, async () => {
-			const r = await node(body);
+			const r = await refused(body);
 			expect(r.status).toBe(400);
 			expect(r.body.error.code).toBe('bad_request');
-			expect(r.body.error.issues.map((i: { path: string }) => i.path)).toContain(path);
+			expect(r.body.error.issues.map((i) => i.path)).toContain(path);
 		});
 
 });

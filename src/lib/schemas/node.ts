@@ -15,6 +15,7 @@ import {
 	MIN_GRID_POINTS,
 	NODE,
 	networkIssues,
+	biasRange,
 	type NodeNetwork
 } from '$lib/junction';
 import type { NodeFlagCode } from '$lib/junction/node-limits';
@@ -195,3 +196,54 @@ export type NodeResponse = {
 };
 
 export type NodeFlag = NodeFlagCode;
+
+/** A part judged in a saved node (the project's requirement), every candidate position holding it. */
+export type NodeEntryPrediction = {
+	/** Worst |net current| and typical, with where the worst lies [A, V, °C]. */
+	netCurrentA: { worst: number; typical: number };
+	signalV: number;
+	temperatureC: number;
+	errorVoltageV: number | null;
+	noiseA_rtHz: number;
+	/** Worst-sample fault excursion at [cold, hot] as stated, or null without a fault current. */
+	excursionV: { cold: number | null; hot: number | null } | null;
+	flags: string[];
+	meetsLimits: boolean;
+};
+
+/** Whether a node states any limit a part can meet or miss (a fault current counts: it must be clamped). */
+export function nodeHasLimits(n: NodeRequirement): boolean {
+	return (
+		n.maxNetCurrentA !== undefined ||
+		n.allowedErrorV !== undefined ||
+		n.maxNoiseA_rtHz !== undefined ||
+		n.maxExcursionV !== undefined ||
+		n.faultCurrentA !== undefined
+	);
+}
+
+/**
+ * The single-junction operating point a node implies, for a project created from it: the
+ * most reverse bias any candidate position sees over the signal range (where a clamp leaks
+ * most), the node's temperatures and source resistance, the fault current as the clamp
+ * current and the excursion limit as the forward-drop limit.
+ */
+export function operatingPointOfNode(n: NodeRequirement): {
+	biasV: number;
+	temperatureC?: number;
+	temperatureRangeC?: [number, number];
+	clampCurrentA?: number;
+	maxForwardDropV?: number;
+	sourceResistanceOhm?: number;
+} {
+	const net = networkOf(n);
+	const candidates = n.junctions.filter((j) => j.candidate);
+	const biasV = Math.min(...(candidates.length ? candidates : n.junctions).map((j) => biasRange(net, j)[0]));
+	return {
+		biasV,
+		...(n.temperatureRangeC ? { temperatureRangeC: n.temperatureRangeC } : { temperatureC: n.temperatureC ?? 25 }),
+		...(n.faultCurrentA !== undefined ? { clampCurrentA: Math.abs(n.faultCurrentA) } : {}),
+		...(n.faultCurrentA !== undefined && n.maxExcursionV !== undefined ? { maxForwardDropV: n.maxExcursionV } : {}),
+		...(n.sourceResistanceOhm !== undefined ? { sourceResistanceOhm: n.sourceResistanceOhm } : {})
+	};
+}

@@ -3,6 +3,7 @@ import { parseCurrent, parseResistance, parseTemperature, parseVoltage } from '$
 import { REVIEW_ACTIONS } from '$lib/review-transitions';
 import { email } from './people';
 import { MAX_ID } from '../../params/id';
+import { nodeRequirementSchema } from './node';
 
 const finite = (what: string) => z.number({ message: `${what} must be a number.` }).refine(Number.isFinite, `${what} must be finite.`);
 const celsius = (what: string) => finite(what).min(-273.15, `${what} is below absolute zero.`).max(500, `${what} is above 500 °C.`);
@@ -16,7 +17,9 @@ export const requirementSchema = z
 		clampCurrentA: finite('clampCurrentA').positive('clampCurrentA must be above zero.').max(1000).optional(),
 		maxForwardDropV: finite('maxForwardDropV').positive('maxForwardDropV must be above zero.').max(100).optional(),
 		leakageTargetA: finite('leakageTargetA').positive('leakageTargetA must be above zero.').max(1).optional(),
-		sourceResistanceOhm: finite('sourceResistanceOhm').min(0, 'sourceResistanceOhm cannot be negative.').optional()
+		sourceResistanceOhm: finite('sourceResistanceOhm').min(0, 'sourceResistanceOhm cannot be negative.').optional(),
+		/** A protected node the shortlist is judged in; candidate positions take each listed part. */
+		node: nodeRequirementSchema.optional()
 	})
 	.strict()
 	.superRefine((r, ctx) => {

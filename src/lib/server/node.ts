@@ -13,7 +13,15 @@ import {
 	type NodePosition,
 	type NodeSummary
 } from '$lib/junction';
-import { networkOf, type FaultOut, type NodeJunctionInput, type NodeRequest, type NodeResponse } from '$lib/schemas/node';
+import {
+	networkOf,
+	type FaultOut,
+	type NodeEntryPrediction,
+	type NodeJunctionInput,
+	type NodeRequest,
+	type NodeRequirement,
+	type NodeResponse
+} from '$lib/schemas/node';
 import { DomainError } from './api';
 import { modelCache, type CacheSnapshot, type CachedPart } from './model-cache';
 
@@ -137,4 +145,40 @@ export async function evaluateNode(req: NodeRequest): Promise<NodeResponse> {
 	const snap = (await modelCache()).snapshot;
 	const positions = resolvePositions(req.junctions, snap);
 	return nodeResponse(summaryOf(req, circuitOf(req, positions)), positions);
+}
+
+/** The figures a saved node gives one part (NodeEntryPrediction in $lib/schemas/node). */
+export function entryPrediction(s: NodeSummary): NodeEntryPrediction {
+	const ev = s.evaluation;
+	return {
+		netCurrentA: { worst: ev.worst.netCurrentA, typical: ev.typical.netCurrentA },
+		signalV: ev.worst.signalV,
+		temperatureC: ev.worst.temperatureC,
+		errorVoltageV: s.errorVoltageV,
+		noiseA_rtHz: ev.noise.worst.densityA_rtHz,
+		excursionV: s.fault ? { cold: s.fault.worst[0].excursionV, hot: s.fault.worst[1].excursionV } : null,
+		flags: s.flags,
+		meetsLimits: s.meetsLimits
+	};
+}
+
+/**
+ * Each named part judged in a saved node, every candidate position holding it, from one cache
+ * snapshot. Parts without a usable model are absent; so is every part when a fixed position's
+ * part has gone from the catalogue (the node cannot be evaluated then).
+ */
+export function predictNode(node: NodeRequirement, partIds: number[], snap: CacheSnapshot): Map<number, NodeEntryPrediction> {
+	const out = new Map<number, NodeEntryPrediction>();
+	for (const id of new Set(partIds)) {
+		const k = snap.indexOf.get(id);
+		if (k === undefined) continue;
+		try {
+			const positions = resolvePositions(node.junctions, snap, snap.parts[k]);
+			out.set(id, entryPrediction(summaryOf(node, circuitOf(node, positions))));
+		} catch (e) {
+			if (e instanceof DomainError) continue;
+			throw e;
+		}
+	}
+	return out;
 }

@@ -12,6 +12,7 @@ import { personRefs, type PersonRef } from './people';
 import { predictEntries, type ModelRecord, type PartModels, type Prediction } from './project-predictions';
 import { EDITABLE_STATES, isEditable, STATE_LABEL, isReviewState } from '$lib/review-transitions';
 import type { CreateProjectInput } from '$lib/schemas/projects';
+import { nodeHasLimits, type NodeEntryPrediction, type NodeRequirement } from '$lib/schemas/node';
 
 export type { Prediction };
 
@@ -23,6 +24,8 @@ export type Verdict = {
 	leakage: { status: 'pass' | 'fail' | 'none'; worstA: number; targetA?: number; ratio?: number };
 	/** pass / fail against the drop limit (worst of cold and hot), or none. */
 	drop: { status: 'pass' | 'fail' | 'none'; worstV?: number; limitV?: number; marginV?: number };
+	/** pass / fail in the requirement's protected node (its limits, the fault clamped), when it has one. */
+	node?: { status: 'pass' | 'fail' | 'none'; flags: string[] };
 	overall: 'pass' | 'fail' | 'unknown';
 };
 
@@ -36,11 +39,13 @@ export type Entry = {
 	addedBy: PersonRef | null;
 	addedAt: Date;
 	prediction: Prediction | null;
+	/** The part in the requirement's protected node, when there is one. */
+	node: NodeEntryPrediction | null;
 	verdict: Verdict | null;
 };
 
-/** Compares one prediction with the requirement's limits. */
-export function verdict(p: Prediction, r: Requirement): Verdict {
+/** Compares one prediction (and the part's figures in the requirement's node) with the requirement's limits. */
+export function verdict(p: Prediction, r: Requirement, node?: NodeEntryPrediction | null): Verdict {
 	const leakage: Verdict['leakage'] =
 		r.leakageTargetA !== undefined
 			? {
@@ -60,9 +65,17 @@ export function verdict(p: Prediction, r: Requirement): Verdict {
 	} else if (r.maxForwardDropV !== undefined) {
 		drop = { status: 'none', limitV: r.maxForwardDropV };
 	}
-	const statuses = [leakage.status, drop.status];
+	const inNode = r.node ? nodeVerdict(r.node, node ?? null) : undefined;
+	const statuses = [leakage.status, drop.status, ...(inNode ? [inNode.status] : [])];
 	const overall = statuses.includes('fail') ? 'fail' : statuses.includes('pass') ? 'pass' : 'unknown';
-	return { leakage, drop, overall };
+	return { leakage, drop, ...(inNode ? { node: inNode } : {}), overall };
+}
+
+/** A part in the node: it fails when it misses a node limit or cannot be evaluated there. */
+function nodeVerdict(n: NodeRequirement, p: NodeEntryPrediction | null): NonNullable<Verdict['node']> {
+	if (!p) return { status: 'fail', flags: [] };
+	if (!p.meetsLimits) return { status: 'fail', flags: p.flags };
+	return { status: nodeHasLimits(n) ? 'pass' : 'none', flags: p.flags };
 }
 
 
@@ -175,13 +188,14 @@ export async function evaluate(
 	project: Project
 ): Promise<{ entries: Entry[]; models: Map<number, ModelRecord>; parts: Map<number, PartModels> }> {
 	const rows = await entryRows(project.id);
-	const { predictions, models, parts } = await predictEntries(
+	const { predictions, models, parts, nodes } = await predictEntries(
 		rows.map((r) => r.partId),
 		project.requirement
 	);
 	const refs = await personRefs(rows.map((r) => r.addedBy));
 	const list = rows.map((r) => {
 		const prediction = predictions.get(r.partId) ?? null;
+		const node = nodes.get(r.partId) ?? null;
 		return {
 			id: r.id,
 			partId: r.partId,
@@ -192,7 +206,8 @@ export async function evaluate(
 			addedBy: r.addedBy ? (refs.get(r.addedBy) ?? null) : null,
 			addedAt: r.addedAt,
 			prediction,
-			verdict: prediction ? verdict(prediction, project.requirement) : null
+			node,
+			verdict: prediction ? verdict(prediction, project.requirement, node) : null
 		};
 	});
 	return { entries: list, models, parts };
@@ -212,6 +227,34 @@ async function lockForEdit(tx: DbOrTx, projectId: number): Promise<Project> {
 	const current = await find(projectId, tx);
 	const label = isReviewState(current.state) ? STATE_LABEL[current.state].toLowerCase() : current.state;
 	throw new DomainError(409, `The shortlist cannot change while the project is ${label}.`);
+}
+
+/**
+ * Puts a protected node into the project's requirement (null takes it out), while the
+ * shortlist may change: the shortlist is then judged in it, and review snapshots keep it.
+ * Parts named in fixed positions must be in the catalogue.
+ */
+export async function setNode(projectId: number, node: NodeRequirement | null, actorId: string): Promise<Project> {
+	return db.transaction(async (tx) => {
+		const current = await lockForEdit(tx, projectId);
+		const fixed = [...new Set((node?.junctions ?? []).flatMap((j) => (j.id !== undefined ? [j.id] : [])))];
+		if (fixed.length) {
+			const found = new Set((await tx.select({ id: parts.id }).from(parts).where(inArray(parts.id, fixed))).map((r) => r.id));
+			const i = node!.junctions.findIndex((j) => j.id !== undefined && !found.has(j.id));
+			if (i >= 0) throw new DomainError(422, `There is no part ${node!.junctions[i].id} in the catalogue.`, [{ path: `junctions.${i}.id`, message: 'No such part.' }]);
+		}
+		const { node: _previous, ...rest } = current.requirement;
+		const requirement: Requirement = node ? { ...rest, node } : rest;
+		const [updated] = await tx.update(projects).set({ requirement }).where(eq(projects.id, projectId)).returning();
+		await recordAudit(tx, {
+			actorId,
+			action: node ? 'project.node-set' : 'project.node-removed',
+			entity: 'project',
+			entityId: projectId,
+			detail: node ? { node } : {}
+		});
+		return updated;
+	});
 }
 
 export async function addEntry(projectId: number, input: { junctionId: number; note: string }, actorId: string) {
@@ -297,7 +340,9 @@ const AUDIT_WORDS: Record<string, (d: Record<string, unknown>) => string> = {
 	'shortlist.removed': (d) => `removed ${String(d.partNumber ?? 'a part')} from the shortlist`,
 	'project.member-added': (d) => `added ${String(d.email ?? 'someone')} as a member`,
 	'project.member-removed': (d) => `removed ${String(d.name ?? d.email ?? 'someone')} from the project${d.wasLead ? ' (they were its lead; any lead now decides)' : ''}`,
-	'project.lead-changed': (d) => (d.to ? `named ${String(d.toName ?? d.to)} the lead` : 'let any lead decide')
+	'project.lead-changed': (d) => (d.to ? `named ${String(d.toName ?? d.to)} the lead` : 'let any lead decide'),
+	'project.node-set': () => 'set the protected node the shortlist is judged in',
+	'project.node-removed': () => 'took the protected node out of the requirement'
 };
 
 /** Who did what, newest first: shortlist and membership changes, and every review step. */

@@ -18,6 +18,7 @@ import { JUNCTION_KINDS, type JunctionKind } from '$lib/catalogue/vocabulary';
 import type { SampleChoice } from '$lib/schemas/spice';
 import { spiceBlock, type SpiceBlock, type SpicePart } from './spice';
 import type { Prediction, Verdict } from './projects';
+import type { NodeEntryPrediction } from '$lib/schemas/node';
 import { checkTransition, ACTION_DONE, STATE_LABEL, isReviewState, type ReviewAction, type ReviewState } from '$lib/review-transitions';
 import type { ReviewResource } from '$lib/permissions';
 import { formatSI, formatTemperature } from '$lib/junction/units';
@@ -37,6 +38,8 @@ export type SnapshotEntry = {
 	evidence?: 'measured' | 'given';
 	givenSource?: string | null;
 	prediction: Prediction | null;
+	/** The part in the requirement's protected node as it stood (absent in snapshots from before nodes). */
+	node?: NodeEntryPrediction | null;
 	verdict: Verdict | null;
 };
 export type Snapshot = { requirement: Requirement; entries: SnapshotEntry[] };
@@ -85,6 +88,7 @@ async function snapshotOf(project: projectsDomain.Project): Promise<Snapshot> {
 			evidence: parts.get(e.partId)?.evidence ?? 'measured',
 			givenSource: parts.get(e.partId)?.givenSource ?? null,
 			prediction: e.prediction,
+			node: e.node,
 			verdict: e.verdict
 		}))
 	};
@@ -157,6 +161,7 @@ export function describeRequirement(r: Requirement): string {
 	if (r.leakageTargetA !== undefined) bits.push(`leakage target ${formatSI(r.leakageTargetA, 'A')}`);
 	if (r.clampCurrentA !== undefined) bits.push(`clamp ${formatSI(r.clampCurrentA, 'A')}`);
 	if (r.maxForwardDropV !== undefined) bits.push(`drop limit ${formatSI(r.maxForwardDropV, 'V')}`);
+	if (r.node) bits.push(`in a protected node of ${r.node.junctions.length} junction${r.node.junctions.length === 1 ? '' : 's'} over ${formatSI(r.node.signalRangeV[0], 'V')} to ${formatSI(r.node.signalRangeV[1], 'V')}`);
 	return bits.join(', ');
 }
 
@@ -164,7 +169,8 @@ function entryLine(e: SnapshotEntry): string {
 	if (!e.prediction || !e.verdict) return `${e.maker} ${e.partNumber}: no prediction (model missing)`;
 	const v = e.verdict;
 	const verdictWord = v.overall === 'pass' ? 'meets the requirement' : v.overall === 'fail' ? 'misses the requirement' : 'no limits to compare';
-	return `${e.maker} ${e.partNumber}: worst leakage ${formatSI(e.prediction.leakageA.worst, 'A')}${v.drop.worstV !== undefined ? `, worst drop ${formatSI(v.drop.worstV, 'V')}` : ''} — ${verdictWord}`;
+	const inNode = e.node ? `, worst net node current ${formatSI(Math.abs(e.node.netCurrentA.worst), 'A')}` : '';
+	return `${e.maker} ${e.partNumber}: worst leakage ${formatSI(e.prediction.leakageA.worst, 'A')}${v.drop.worstV !== undefined ? `, worst drop ${formatSI(v.drop.worstV, 'V')}` : ''}${inNode} — ${verdictWord}`;
 }
 
 export function composeMail(m: {

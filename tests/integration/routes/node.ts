@@ -11,3 +11,9 @@ const node = {
 export const nodeRoutes: RouteCase[] = [
 	{ route: '/api/v1/node', method: 'POST', path: '/api/v1/node', allow: 'any-role', kind: 'api', json: node }
 ];
+
+const savedNode = { rails: { VPOS: 5, VNEG: -5 }, signalRangeV: [-2, 2], temperatureC: 25, junctions: [{ candidate: true, anode: 'node', cathode: 'VPOS' }] };
+export const projectNodeRoutes: RouteCase[] = [
+	{ route: '/api/v1/projects/[id=id]/node', method: 'PUT', path: '/api/v1/projects/999999/node', allow: ['designer'], kind: 'api', json: savedNode },
+	{ route: '/api/v1/projects/[id=id]/node', method: 'DELETE', path: '/api/v1/projects/999999/node', allow: ['designer'], kind: 'api' }
+];

@@ -10,6 +10,7 @@ export {
 	parseResistance,
 	parseCapacitance,
 	parseTemperature,
+	parseNoiseDensity,
 	formatSI,
 	formatBias,
 	formatTemperature,

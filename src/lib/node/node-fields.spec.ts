@@ -1,0 +1,49 @@
+import { describe, expect, it } from 'vitest';
+import { NODE_PRESETS, NODE_PRESET_KEYS } from '$lib/junction';
+import { emptyNodeFields, fieldOfIssue, fieldsFromQuery, parseNodeFields, presetFields, queryFromFields } from './node-fields';
+
+describe('node fields', () => {
+	for (const key of NODE_PRESET_KEYS)
+		it(`reads the preset “${NODE_PRESETS[key].name}” back through the URL unchanged`, () => {
+			const f = presetFields(key);
+			const again = fieldsFromQuery(new URLSearchParams(queryFromFields(f)));
+			expect(again).toEqual(f);
+			const { node, errors } = parseNodeFields(again);
+			expect(errors).toEqual({});
+			const p = NODE_PRESETS[key];
+			expect(node!.rails).toEqual(p.rails);
+			expect(node!.signalRangeV).toEqual(p.signalRangeV);
+			expect(node!.temperatureRangeC).toEqual(p.temperatureRangeC);
+			expect(node!.faultCurrentA).toBeCloseTo(p.faultCurrentA!, 15);
+			expect(node!.guard?.offsetV).toBe(p.guardOffsetV);
+			expect(node!.junctions).toEqual(p.junctions.map((j, i) => ({ ...j, label: `D${i + 1}`, candidate: true })));
+		});
+
+	it('reads what a designer types: SI prefixes, units, a noise density and a named part', () => {
+		const f = { ...presetFields('rail-pair'), maxNet: '10p', maxNoise: '5 fA/√Hz', allowedError: '2 mV', tLo: '', tHi: '85 °C' };
+		f.positions[1].part = 'QX-101';
+		const { node } = parseNodeFields(f);
+		expect(node).toMatchObject({ maxNetCurrentA: 1e-11, allowedErrorV: 0.002, temperatureC: 85 });
+		expect(node!.maxNoiseA_rtHz).toBeCloseTo(5e-15, 28);
+		expect(node!.junctions[1]).toEqual({ anode: 'VNEG', cathode: 'node', label: 'D2', partNumber: 'QX-101' });
+	});
+
+	it('names the field of every problem', () => {
+		const f = { ...emptyNodeFields(), rails: [{ name: 'VPOS', volts: 'five' }, { name: 'VPOS', volts: '1' }], sigLo: '2', sigHi: '-2', tHi: '', fault: '0', allowedError: '1m' };
+		const { node, errors } = parseNodeFields(f);
+		expect(node).toBeUndefined();
+		expect(Object.keys(errors).sort()).toEqual(['allowedError', 'fault', 'positions', 'rails.0.volts', 'rails.1.name', 'sigHi', 'tHi'].sort());
+		expect(errors['rails.0.volts']).toMatch(/Expected a voltage/);
+	});
+
+	it('finds the field an API issue belongs to', () => {
+		const f = presetFields('rail-pair');
+		expect(fieldOfIssue('junctions.1.cathode', f)).toBe('positions.1.cathode');
+		expect(fieldOfIssue('junctions.0', f)).toBe('positions.0');
+		expect(fieldOfIssue('junctions.0.id', f)).toBe('positions.0.part');
+		expect(fieldOfIssue('junctions', f)).toBe('positions');
+		expect(fieldOfIssue('rails.VNEG', f)).toBe('rails.1.name');
+		expect(fieldOfIssue('allowedErrorV', f)).toBe('allowedError');
+		expect(fieldOfIssue('weird', f)).toBe('form');
+	});
+});

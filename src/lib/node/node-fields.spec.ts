@@ -47,3 +47,16 @@ describe('node fields', () => {
 		expect(fieldOfIssue('weird', f)).toBe('form');
 	});
 });
+
+describe('row edits', () => {
+	it('adds and drops rails and junctions, and ignores anything else', async () => {
+		const { applyEdit } = await import('./node-fields');
+		const f = presetFields('rail-pair');
+		expect(applyEdit(f, 'add-rail').rails).toHaveLength(3);
+		expect(applyEdit(f, 'add-junction').positions[2]).toEqual({ anode: 'node', cathode: 'VPOS', part: '', label: 'D3' });
+		expect(applyEdit(f, 'drop-rail-0').rails.map((r) => r.name)).toEqual(['VNEG']);
+		expect(applyEdit(f, 'drop-junction-1').positions).toHaveLength(1);
+		expect(applyEdit(f, 'drop-everything')).toEqual(f);
+		expect(f.rails).toHaveLength(2);
+	});
+});

@@ -237,3 +237,19 @@ export function fieldOfIssue(path: string, f: NodeFields): string {
 	};
 	return map[parts[0]] ?? 'form';
 }
+
+/**
+ * A row edit asked for by the form's buttons (without JavaScript they submit it as `edit`):
+ * `add-rail`, `add-junction`, `drop-rail-N`, `drop-junction-N`. Unknown edits change nothing.
+ */
+export function applyEdit(f: NodeFields, edit: string | null): NodeFields {
+	if (!edit) return f;
+	const out: NodeFields = { ...f, rails: f.rails.map((r) => ({ ...r })), positions: f.positions.map((p) => ({ ...p })) };
+	if (edit === 'add-rail') out.rails.push({ name: `V${out.rails.length + 1}`, volts: '' });
+	else if (edit === 'add-junction') out.positions.push({ anode: 'node', cathode: out.rails[0]?.name ?? (out.guard.trim() ? 'guard' : ''), part: '', label: `D${out.positions.length + 1}` });
+	else {
+		const m = /^drop-(rail|junction)-(\d+)$/.exec(edit);
+		if (m) (m[1] === 'rail' ? out.rails : out.positions).splice(Number(m[2]), 1);
+	}
+	return out;
+}

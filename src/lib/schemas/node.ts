@@ -18,8 +18,8 @@ import {
 	biasRange,
 	type NodeNetwork
 } from '$lib/junction';
-import type { NodeFlagCode } from '$lib/junction/node-limits';
-import { spiceModelSchema } from './rank';
+import { NODE_FLAG_WORDS, type NodeFlagCode } from '$lib/junction/node-limits';
+import { FLAG_WORDS, spiceModelSchema } from './rank';
 import { MAX_ID } from '../../params/id';
 
 const ABS_ZERO_C = -273.15;
@@ -246,4 +246,9 @@ export function operatingPointOfNode(n: NodeRequirement): {
 		...(n.faultCurrentA !== undefined && n.maxExcursionV !== undefined ? { maxForwardDropV: n.maxExcursionV } : {}),
 		...(n.sourceResistanceOhm !== undefined ? { sourceResistanceOhm: n.sourceResistanceOhm } : {})
 	};
+}
+
+/** Words for any flag a ranking or a node raises: the catalogue's (rank) or the node's own. */
+export function flagText(code: string): { short: string; long: string; caution: boolean } {
+	return (NODE_FLAG_WORDS as Record<string, { short: string; long: string; caution: boolean }>)[code] ?? (FLAG_WORDS as Record<string, { short: string; long: string; caution: boolean }>)[code] ?? { short: code, long: code, caution: false };
 }

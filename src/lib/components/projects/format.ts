@@ -1,5 +1,5 @@
 import { formatSI, formatTemperature } from '$lib/junction/units';
-import { FLAG_WORDS, type RankFlag } from '$lib/schemas/rank';
+import { flagText } from '$lib/schemas/node';
 
 /** Amps, volts, ohms with SI prefixes; a dash when absent. */
 export function si(v: number | null | undefined, unit: string, digits = 3): string {
@@ -11,10 +11,10 @@ export function temperatures(r: { temperatureC?: number; temperatureRangeC?: [nu
 	return r.temperatureC === undefined ? '—' : formatTemperature(r.temperatureC);
 }
 
-/** A flag in words: short label and the full explanation. */
+/** A flag in words (the catalogue's or a protected node's): short label and the full explanation. */
 export function flagWords(code: string): { short: string; long: string } {
-	const w = FLAG_WORDS[code as RankFlag];
-	return w ? { short: w.short, long: w.long } : { short: code, long: code };
+	const w = flagText(code);
+	return { short: w.short, long: w.long };
 }
 
 export function when(d: Date | string): string {

@@ -60,3 +60,33 @@ describe('row edits', () => {
 		expect(f.rails).toHaveLength(2);
 	});
 });
+
+describe('a saved node on the screen', () => {
+	it('shows a saved node as fields that read back to the same node', async () => {
+		const { fieldsFromNode } = await import('./node-fields');
+		const saved = {
+			rails: { VPOS: 15, VNEG: -15 },
+			guard: { offsetV: 2.5e-3 },
+			signalRangeV: [-10, 10] as [number, number],
+			temperatureRangeC: [-40, 85] as [number, number],
+			sourceResistanceOhm: 1e10,
+			faultCurrentA: -0.005,
+			maxNoiseA_rtHz: 3e-15,
+			junctions: [
+				{ anode: 'node', cathode: 'VPOS', candidate: true, label: 'up' },
+				{ anode: 'guard', cathode: 'node', id: 7 }
+			]
+		};
+		const f = fieldsFromNode(saved, (id) => `PART-${id}`);
+		expect(f.positions[1].part).toBe('PART-7');
+		const { node, errors } = parseNodeFields(f);
+		expect(errors).toEqual({});
+		expect(node).toMatchObject({ rails: saved.rails, signalRangeV: saved.signalRangeV, temperatureRangeC: saved.temperatureRangeC, faultCurrentA: -0.005, sourceResistanceOhm: 1e10 });
+		expect(node!.guard!.offsetV).toBeCloseTo(2.5e-3, 15);
+		expect(node!.maxNoiseA_rtHz).toBeCloseTo(3e-15, 28);
+		expect(node!.junctions).toEqual([
+			{ anode: 'node', cathode: 'VPOS', label: 'up', candidate: true },
+			{ anode: 'guard', cathode: 'node', partNumber: 'PART-7' }
+		]);
+	});
+});

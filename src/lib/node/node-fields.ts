@@ -253,3 +253,40 @@ export function applyEdit(f: NodeFields, edit: string | null): NodeFields {
 	}
 	return out;
 }
+
+/** The fields showing a saved node (fixed positions by their part number, as `partNumberOf` gives it). */
+export function fieldsFromNode(
+	n: {
+		rails: Record<string, number>;
+		guard?: { offsetV: number };
+		signalRangeV: [number, number];
+		temperatureC?: number;
+		temperatureRangeC?: [number, number];
+		sourceResistanceOhm?: number;
+		faultCurrentA?: number;
+		maxNetCurrentA?: number;
+		allowedErrorV?: number;
+		maxNoiseA_rtHz?: number;
+		maxExcursionV?: number;
+		junctions: { anode: string; cathode: string; id?: number; label?: string; candidate?: boolean }[];
+	},
+	partNumberOf: (id: number) => string
+): NodeFields {
+	const opt = (v: number | undefined, unit: string) => (v === undefined ? '' : formatSI(v, unit, { digits: 6 }));
+	return {
+		...emptyNodeFields(),
+		rails: Object.entries(n.rails).map(([name, v]) => ({ name, volts: formatSI(v, 'V', { digits: 6 }) })),
+		guard: opt(n.guard?.offsetV, 'V'),
+		sigLo: formatSI(n.signalRangeV[0], 'V', { digits: 6 }),
+		sigHi: formatSI(n.signalRangeV[1], 'V', { digits: 6 }),
+		tLo: n.temperatureRangeC ? formatTemperature(n.temperatureRangeC[0], 3) : '',
+		tHi: formatTemperature(n.temperatureRangeC ? n.temperatureRangeC[1] : (n.temperatureC ?? 25), 3),
+		source: opt(n.sourceResistanceOhm, 'Ω'),
+		fault: opt(n.faultCurrentA, 'A'),
+		maxNet: opt(n.maxNetCurrentA, 'A'),
+		allowedError: opt(n.allowedErrorV, 'V'),
+		maxNoise: n.maxNoiseA_rtHz === undefined ? '' : `${formatSI(n.maxNoiseA_rtHz, 'A', { digits: 6 })}/√Hz`,
+		maxExcursion: opt(n.maxExcursionV, 'V'),
+		positions: n.junctions.map((j) => ({ anode: j.anode, cathode: j.cathode, part: j.id !== undefined ? partNumberOf(j.id) : '', label: j.label ?? '' }))
+	};
+}

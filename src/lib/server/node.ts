@@ -22,6 +22,7 @@ import {
 	type NodeRequirement,
 	type NodeResponse
 } from '$lib/schemas/node';
+import { fieldsFromNode, queryFromFields } from '$lib/node/node-fields';
 import { DomainError } from './api';
 import { modelCache, type CacheSnapshot, type CachedPart } from './model-cache';
 
@@ -181,4 +182,14 @@ export function predictNode(node: NodeRequirement, partIds: number[], snap: Cach
 		}
 	}
 	return out;
+}
+
+/** The screen link of a saved node: /node with its fields (fixed parts by their part numbers). */
+export async function nodeScreenHref(node: NodeRequirement): Promise<string> {
+	const snap = (await modelCache()).snapshot;
+	const numberOf = (id: number) => {
+		const k = snap.indexOf.get(id);
+		return k === undefined ? `#${id}` : snap.parts[k].partNumber;
+	};
+	return `/node?${queryFromFields(fieldsFromNode(node, numberOf))}`;
 }

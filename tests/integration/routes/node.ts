@@ -17,3 +17,8 @@ export const projectNodeRoutes: RouteCase[] = [
 	{ route: '/api/v1/projects/[id=id]/node', method: 'PUT', path: '/api/v1/projects/999999/node', allow: ['designer'], kind: 'api', json: savedNode },
 	{ route: '/api/v1/projects/[id=id]/node', method: 'DELETE', path: '/api/v1/projects/999999/node', allow: ['designer'], kind: 'api' }
 ];
+
+export const nodeScreenRoutes: RouteCase[] = [
+	{ route: '/node', method: 'GET', path: '/node?preset=rail-pair', allow: 'any-role', kind: 'page' },
+	{ route: '/node', method: 'POST', path: '/node?/save', allow: ['designer'], kind: 'action', form: { query: '', project: '' } }
+];

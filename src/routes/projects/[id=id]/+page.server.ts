@@ -10,6 +10,7 @@ import { projectPatchSchema } from '$lib/schemas/project-people';
 import { reviewSchema } from '$lib/schemas/projects';
 import { email } from '$lib/schemas/people';
 import { availableActions, isEditable } from '$lib/review-transitions';
+import { nodeScreenHref } from '$lib/server/node';
 import { emptyFields, queryFromFields } from '$lib/rank/operating-point-url';
 import type { RequestEvent } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
@@ -65,7 +66,8 @@ export const load: PageServerLoad = async (event) => {
 		canEdit: can(user, 'shortlist:edit') && isEditable(project.state),
 		canPeople,
 		leads,
-		rankHref: rankLink(project.requirement)
+		rankHref: rankLink(project.requirement),
+		nodeHref: project.requirement.node ? await nodeScreenHref(project.requirement.node) : null
 	};
 };
 

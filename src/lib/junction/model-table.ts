@@ -210,6 +210,30 @@ export class ModelTable {
 	}
 
 	/**
+	 * Current-noise power density [A²/Hz] of every model at terminal bias V [V] and temperature
+	 * [°C], from the currents `currents` gives at that bias and temperature:
+	 *   2q·(IS(T)·expm1(V_j/(N·Vt)) + 2·IS(T)) + 4k·T/RSH(T),  V_j = V − I·RS
+	 * (noise.ts: ideal-junction shot noise after van der Ziel, and the shunt's Nyquist noise).
+	 * @throws RangeError for a short input or output array.
+	 */
+	noisePowers(biasV: number, temperatureC: number, currentsA: Float64Array, out: Float64Array, constants: PhysicalConstants = SI_2019): Float64Array {
+		if (currentsA.length < this.length || out.length < this.length) throw new RangeError('arrays are shorter than the table');
+		const cols = this.scaled(temperatureC, constants);
+		const { N, RS } = this;
+		const { IS, GSH, vt } = cols;
+		const twoQ = 2 * constants.q;
+		// 4kT with T = q·Vt/k.
+		const fourKT = 4 * constants.q * vt;
+		for (let j = 0; j < this.length; j++) {
+			const vd = biasV - currentsA[j] * RS[j];
+			const shot = IS[j] * Math.expm1(vd / (N[j] * vt)) + 2 * IS[j];
+			const s = twoQ * (shot > 0 ? shot : 0) + fourKT * GSH[j];
+			out[j] = s > Number.MAX_VALUE ? Number.MAX_VALUE : s;
+		}
+		return out;
+	}
+
+	/**
 	 * Terminal voltage [V] of every model at a forward current [A] and temperature [°C]:
 	 * V = N·Vt·ln(1 + I/IS(T)) + I·RS, with the exact shunt correction of
 	 * `shuntCorrectedVoltage` when there is a shunt, and the general solver for models

@@ -6,7 +6,7 @@ import { desc, eq } from 'drizzle-orm';
 import { db } from '$lib/server/db';
 import { reviewEvents } from '$lib/server/db/schema';
 import type { Snapshot } from '$lib/server/review';
-import { api, unique, type ApiResult } from './helpers';
+import { api, browse, unique, type ApiResult } from './helpers';
 import { makePart } from './projects-fixtures';
 
 const NODE = {
@@ -69,6 +69,10 @@ describe('a node as the requirement', () => {
 		expect(snap.requirement.node?.junctions.map((j) => j.label)).toEqual(['upper', 'lower']);
 		expect(snap.entries.find((e) => e.partId === shunted.id)?.node?.flags).toContain('over-net-current-limit');
 		expect(snap.entries.find((e) => e.partId === tight.id)?.node?.meetsLimits).toBe(true);
+		// The printed record shows the node and each part's figures from the snapshot.
+		const record = await browse(`/projects/${id}/export/record`, { as: 'lead' });
+		expect(record.text).toContain('In the protected node, as it stood');
+		expect(record.text).toMatch(/data-node-verdict="fail"/);
 		// Locked in review: the node cannot change under the lead.
 		expect((await api('PUT', `/api/v1/projects/${id}/node`, { as: 'designer', json: NODE })).status).toBe(409);
 	});

@@ -219,18 +219,25 @@ export class ModelTable {
 	noisePowers(biasV: number, temperatureC: number, currentsA: Float64Array, out: Float64Array, constants: PhysicalConstants = SI_2019): Float64Array {
 		if (currentsA.length < this.length || out.length < this.length) throw new RangeError('arrays are shorter than the table');
 		const cols = this.scaled(temperatureC, constants);
-		const { N, RS } = this;
-		const { IS, GSH, vt } = cols;
-		const twoQ = 2 * constants.q;
-		// 4kT with T = q·Vt/k.
-		const fourKT = 4 * constants.q * vt;
-		for (let j = 0; j < this.length; j++) {
-			const vd = biasV - currentsA[j] * RS[j];
-			const shot = IS[j] * Math.expm1(vd / (N[j] * vt)) + 2 * IS[j];
-			const s = twoQ * (shot > 0 ? shot : 0) + fourKT * GSH[j];
-			out[j] = s > Number.MAX_VALUE ? Number.MAX_VALUE : s;
-		}
+		for (let j = 0; j < this.length; j++) out[j] = this.noiseOf(cols, j, biasV, currentsA[j], constants);
 		return out;
+	}
+
+	/**
+	 * Current-noise power density [A²/Hz] of model j at terminal bias V [V] and temperature [°C]
+	 * carrying the current `currentA` it carries there (as `noisePowers`, for one model).
+	 */
+	noisePowerAt(j: number, biasV: number, currentA: number, temperatureC: number, constants: PhysicalConstants = SI_2019): number {
+		return this.noiseOf(this.scaled(temperatureC, constants), j, biasV, currentA, constants);
+	}
+
+	private noiseOf(cols: ScaledColumns, j: number, biasV: number, currentA: number, constants: PhysicalConstants): number {
+		const is = cols.IS[j];
+		const vd = biasV - currentA * this.RS[j];
+		const shot = is * Math.expm1(vd / (this.N[j] * cols.vt)) + 2 * is;
+		// 4kT with T = q·Vt/k.
+		const s = 2 * constants.q * (shot > 0 ? shot : 0) + 4 * constants.q * cols.vt * cols.GSH[j];
+		return s > Number.MAX_VALUE ? Number.MAX_VALUE : s;
 	}
 
 	/**

@@ -5,6 +5,7 @@
  * (extrapolation, light, fit quality …) are the catalogue ranking's (rank.ts).
  */
 import { thermalVoltage, celsiusToKelvin, SI_2019, type PhysicalConstants } from './constants';
+import { FLAG_WORDS } from './rank-flags';
 
 export interface NodeLimits {
 	/** Largest allowed worst |net node current| [A]. */
@@ -41,11 +42,8 @@ export const NODE_FLAG_WORDS: Record<NodeFlagCode, { short: string; long: string
 		long: 'The worst net node current (or its error voltage across the source resistance) exceeds what you allowed.',
 		caution: true
 	},
-	'over-noise-limit': {
-		short: 'noise over limit',
-		long: 'The current noise at the node exceeds the density you allowed.',
-		caution: true
-	},
+	// One code and one text with the single-junction ranking's noise limit.
+	'over-noise-limit': FLAG_WORDS['over-noise-limit'],
 	'excursion-over-limit': {
 		short: 'fault excursion over limit',
 		long: 'With the fault current the node goes farther beyond the rail (or guard) it is clamped to than you allowed, at the hot or the cold end.',

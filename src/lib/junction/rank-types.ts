@@ -56,6 +56,11 @@ export interface RankedPart {
 	sampleLeakageA?: number[];
 	forwardDropV?: { hot: number; cold: number; worst: number };
 	capacitanceF?: number;
+	/**
+	 * Current-noise density at the bias and hot end [A/√Hz] (noise.ts): median sample, noisiest
+	 * sample, and the statistical bound over the samples' noise powers (null as for leakage).
+	 */
+	noiseA_rtHz: { typical: number; worst: number; bound: number | null };
 	flags: FlagCode[];
 	/** The part meets every limit the operating point states (see rank.ts). */
 	meetsLimits: boolean;
@@ -113,6 +118,10 @@ export interface RankResult {
 	flags: Uint32Array;
 	/** Median capacitance at the bias [F], computed for every part only when a capacitance limit is given (else NaN). */
 	capacitanceF: Float64Array;
+	/** Current-noise density [A/√Hz] (typical, noisiest sample, bound), computed for every part only when a noise limit is given (else NaN). */
+	noiseTypical: Float64Array;
+	noiseWorst: Float64Array;
+	noiseBound: Float64Array;
 	hotC: number;
 	coldC: number;
 }

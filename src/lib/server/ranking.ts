@@ -31,6 +31,7 @@ export function engineOperatingPoint(op: RankOperatingPoint): OperatingPoint {
 		...(op.maxForwardDropV !== undefined ? { maxForwardDropV: op.maxForwardDropV } : {}),
 		...(budget !== null ? { maxLeakageA: budget } : {}),
 		...(op.maxCapacitanceF !== undefined ? { maxCapacitanceF: op.maxCapacitanceF } : {}),
+		...(op.maxNoiseA_rtHz !== undefined ? { maxNoiseA_rtHz: op.maxNoiseA_rtHz } : {}),
 		reverseMarginV: op.reverseMarginV ?? 0,
 		includeOverRating: op.includeOverRating ?? false,
 		...(op.basis !== undefined ? { basis: op.basis } : {}),
@@ -63,6 +64,7 @@ function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit
 		forwardDropV: row.forwardDropV ? { cold: row.forwardDropV.cold, hot: row.forwardDropV.hot, worst: row.forwardDropV.worst } : null,
 		reverseMarginV: part.ratedReverseV === null ? null : part.ratedReverseV - Math.max(0, -op.biasV),
 		capacitanceF: row.capacitanceF ?? null,
+		noiseA_rtHz: row.noiseA_rtHz,
 		errorVoltageV: op.sourceResistanceOhm !== undefined ? row.leakageA.worst * op.sourceResistanceOhm : null,
 		// The engine's flag codes are the API's (RANK_FLAGS lists the same codes).
 		flags: row.flags as RankFlag[],

@@ -30,7 +30,7 @@ import {
 	orderGroups,
 	RANK_GROUPS as GROUPS
 } from './rank-order';
-import type { PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
+import type { CatalogueView, PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
 import { toleranceFactor } from './tolerance';
 import { CatalogueNoise } from './catalogue-noise';
 
@@ -154,6 +154,23 @@ export class CatalogueTable {
 		this.factorCache = new Map();
 		this.resultColumns = new Float64Array(0);
 		this.resultFlags = new Uint32Array(0);
+	}
+
+	/** The table's columns for other evaluations over the same catalogue (the protected node's ranking). */
+	view(): CatalogueView {
+		return {
+			records: this.parts,
+			models: this.models,
+			start: this.start,
+			count: this.count,
+			given: this.given,
+			staticFlags: this.staticFlags,
+			minMeasuredA: this.minMeasured,
+			ratedReverseV: this.ratedReverse,
+			ratedForwardA: this.ratedForward,
+			farAt: (tC) => this.caches.farAt(tC),
+			factorsFor: (coverage, confidence) => this.factorsFor(coverage, confidence)
+		};
 	}
 
 	/** The record behind a part index. */

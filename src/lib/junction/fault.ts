@@ -8,7 +8,11 @@
  *   Σ_p σ_p·I_p(bias_p(V_n)) = I_fault        (current leaving through the junctions = current driven in)
  * exactly, every junction included (node.ts for σ_p and the biases). The left side rises with
  * V_n (each term's slope is the junction's conductance), so the root is unique and a
- * safeguarded Newton iteration on a bracket finds it (solve.ts). The junction carrying most of
+ * safeguarded Newton iteration on a bracket finds it (solve.ts). The search starts where the
+ * nearest junction that conducts in the fault's direction would put the node carrying the
+ * whole fault current alone (its far terminal plus its forward voltage at that current, the
+ * closed form of shockley.ts): the others' leakage moves the root by far less than a
+ * millivolt, so the bracket around that start is found in a few steps. The junction carrying most of
  * the fault current names the terminal the node is clamped to; the excursion is how far V_n
  * lies beyond that terminal's potential in the fault's direction.
  *
@@ -21,7 +25,7 @@
  * position's median sample.
  */
 import { solveIncreasing } from './solve';
-import { junctionCurrentAndSlope, solveBias } from './shockley';
+import { junctionCurrentAndSlope, solveBias, voltageAtCurrent } from './shockley';
 import { biasAt, farTerminal, leavingSign, terminalVoltage, type NodeNetwork, type NodePosition, type Terminal } from './node';
 import type { ScaledJunction } from './temperature';
 
@@ -98,9 +102,10 @@ export function faultExcursion(
 		out[0] = sum - faultCurrentA;
 		out[1] = slope;
 	};
-	const bracket = findBracket(residual, signalV, up);
+	const start = clampGuess(net, positions, scaled, faultCurrentA, signalV, samples);
+	const bracket = (start !== null ? bracketAround(residual, start) : null) ?? findBracket(residual, signalV, up);
 	if (!bracket) return { direction, nodeV: null, excursionV: null, clampedTo: null, position: null };
-	const nodeV = solveIncreasing(residual, bracket[0], bracket[1]);
+	const nodeV = solveIncreasing(residual, bracket[0], bracket[1], start ?? undefined);
 	// The junction carrying most of the fault current in its direction names the clamp.
 	let best = 0;
 	let bestShare = -Infinity;
@@ -114,6 +119,57 @@ export function faultExcursion(
 	const clampedTo = farTerminal(positions[best]);
 	const clampV = terminalVoltage(net, clampedTo, signalV, nodeV);
 	return { direction, nodeV, excursionV: up ? nodeV - clampV : clampV - nodeV, clampedTo, position: best };
+}
+
+/**
+ * Where the node would sit if the nearest junction conducting in the fault's direction
+ * carried the whole fault current alone, with its sample of the largest forward voltage
+ * (the median sample's for 'typical'); null when no junction conducts that way.
+ */
+function clampGuess(
+	net: NodeNetwork,
+	positions: readonly NodePosition[],
+	scaled: readonly (readonly ScaledJunction[])[],
+	faultCurrentA: number,
+	signalV: number,
+	samples: 'worst' | 'typical'
+): number | null {
+	const up = faultCurrentA > 0;
+	const current = Math.abs(faultCurrentA);
+	let best: number | null = null;
+	positions.forEach((pos, p) => {
+		// Driving the node up forward-biases a junction whose anode is on the node, and down one whose cathode is.
+		if (leavingSign(pos) !== (up ? 1 : -1)) return;
+		let drops: number[];
+		try {
+			drops = scaled[p].map((m) => voltageAtCurrent(m, current)).sort((a, b) => a - b);
+		} catch {
+			return;
+		}
+		const drop = samples === 'typical' ? drops[drops.length >> 1] : drops[drops.length - 1];
+		const far = terminalVoltage(net, farTerminal(pos), signalV);
+		const x = up ? far + drop : far - drop;
+		if (best === null || (up ? x < best : x > best)) best = x;
+	});
+	return best;
+}
+
+/** A bracket around the root of an increasing residual near `x0`, widened in doubling steps from 1 µV; null past UNCLAMPED_BEYOND_V. */
+function bracketAround(residual: (x: number, out: Float64Array) => void, x0: number): [number, number] | null {
+	const out = new Float64Array(2);
+	const at = (x: number) => (residual(x, out), out[0]);
+	const r0 = at(x0);
+	if (r0 === 0) return [x0, x0];
+	if (!Number.isFinite(r0)) return null;
+	const dir = r0 < 0 ? 1 : -1;
+	let near = x0;
+	for (let step = 1e-6; step <= UNCLAMPED_BEYOND_V; step *= 2) {
+		const x = x0 + dir * step;
+		const r = at(x);
+		if (dir > 0 ? !(r < 0) : !(r > 0)) return dir > 0 ? [near, x] : [x, near];
+		near = x;
+	}
+	return null;
 }
 
 /**

@@ -89,3 +89,6 @@ export { summarizeNode } from './node-summary';
 export type { NodeSummary, NodeSummaryOptions, FaultAtEnds } from './node-summary';
 export { nodeFlags, NODE_FLAG_CODES, NODE_FLAG_WORDS, NODE_LIMIT_FLAGS, CONDUCTING_NVT, ERROR_SHIFT_FRACTION } from './node-limits';
 export type { NodeLimits, NodeFlagCode, NodeFigures } from './node-limits';
+export { rankNode, nodeRankRows, candidateCircuit, NODE_RANK_BY, RANK_GRID_POINTS } from './node-rank';
+export type { NodeRankRequest, NodeRankResult, NodeRankedPart, NodeRankBy, RankPosition } from './node-rank';
+export type { Judged } from './node-summary';

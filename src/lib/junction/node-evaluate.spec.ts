@@ -7,6 +7,7 @@ import { NODE_PRESETS } from './node-presets';
 import { evenGrid } from './maximize';
 import type { NodeNetwork, NodePosition, Placement } from './node';
 import { expectRelClose } from './test-helpers';
+import { toleranceFactor } from './tolerance';
 
 const { k, q } = SI_2019;
 
@@ -175,6 +176,81 @@ describe('cancellation and the worst sample assignment', () => {
 		const circuit = new NodeCircuit(net, [{ anode: 'node', cathode: 'VPOS', samples }]);
 		expectRelClose(circuit.point(0.5, 0).typicalA, diodeCurrent(samples[2], -4.5, 25), 1e-12);
 		expectRelClose(circuit.point(0.5, 0).worstA, diodeCurrent(samples[1], -4.5, 25), 1e-12);
+	});
+});
+
+describe('the statistical bound of the net current', () => {
+	const lot = (base: number, spread: number[]) => spread.map((f) => silicon({ IS: base * f, N: 1.02, RSH: 2e12 / f }));
+	const net: NodeNetwork = { rails: { VPOS: 5, VNEG: -5 }, signalRangeV: [-2, 2], temperatureRangeC: [0, 70] };
+	const upper = lot(1e-14, [1, 3, 0.4]);
+	const lower = lot(2e-14, [1, 0.2, 5, 1.5]);
+	const k3 = toleranceFactor(3, 0.95, 0.9);
+	const k4 = toleranceFactor(4, 0.95, 0.9);
+
+	/** exp(ȳ ± k·s) over y = ln|I| of the samples, written out. */
+	const limits = (currents: number[], k: number) => {
+		const y = currents.map((i) => Math.log(Math.abs(i)));
+		const mean = y.reduce((a, b) => a + b, 0) / y.length;
+		const sd = Math.sqrt(y.reduce((a, b) => a + (b - mean) ** 2, 0) / (y.length - 1));
+		return { hi: Math.exp(mean + k * sd), lo: Math.exp(mean - k * sd) };
+	};
+
+	it('stacks each position’s tolerance limits the way that adds to the node’s current', () => {
+		const circuit = new NodeCircuit(net, [
+			{ anode: 'node', cathode: 'VPOS', samples: upper, boundFactor: k3 },
+			{ anode: 'VNEG', cathode: 'node', samples: lower, boundFactor: k4 }
+		]);
+		for (const end of [0, 1] as const)
+			for (const v of [-2, -0.5, 1, 2]) {
+				const tC = net.temperatureRangeC[end];
+				// Upper clamp, reverse-biased: current into its cathode, so it draws current into the node (negative).
+				const u = limits(upper.map((m) => referenceCurrent(m, v - 5, tC)), k3);
+				// Lower clamp, reverse-biased: its current leaves the node (positive).
+				const l = limits(lower.map((m) => referenceCurrent(m, -5 - v, tC)), k4);
+				const high = l.hi - u.lo;
+				const low = l.lo - u.hi;
+				const expected = Math.abs(high) >= Math.abs(low) ? high : low;
+				expectRelClose(circuit.point(v, end).boundA, expected, 1e-6, `${tC} °C, ${v} V`);
+			}
+		const ev = circuit.evaluate();
+		expect(ev.bound).not.toBeNull();
+		expectRelClose(Math.abs(ev.bound!.netCurrentA), Math.max(...[0, 1].flatMap((e) => Array.from(ev.boundA[e], Math.abs))), 1e-9);
+	});
+
+	it('keeps the extreme samples for a position without a factor, and has no bound when none has one', () => {
+		const mixed = new NodeCircuit(net, [
+			{ anode: 'node', cathode: 'VPOS', samples: upper },
+			{ anode: 'VNEG', cathode: 'node', samples: lower, boundFactor: k4 }
+		]);
+		const v = 1;
+		const worstUpper = Math.min(...upper.map((m) => Math.abs(referenceCurrent(m, v - 5, 70))));
+		const l = limits(lower.map((m) => referenceCurrent(m, -5 - v, 70)), k4);
+		expectRelClose(mixed.point(v, 1).boundA, l.hi - worstUpper, 1e-6);
+		const none = new NodeCircuit(net, [
+			{ anode: 'node', cathode: 'VPOS', samples: upper },
+			{ anode: 'VNEG', cathode: 'node', samples: lower }
+		]);
+		const ev = none.evaluate(11);
+		expect(ev.bound).toBeNull();
+		expect(ev.noise.bound).toBeNull();
+		expect(Number.isNaN(ev.boundA[1][0])).toBe(true);
+	});
+
+	it('bounds the noise power position by position, the powers added', () => {
+		const circuit = new NodeCircuit(net, [
+			{ anode: 'node', cathode: 'VPOS', samples: upper, boundFactor: k3 },
+			{ anode: 'VNEG', cathode: 'node', samples: lower, boundFactor: k4 }
+		]);
+		const v = -2;
+		const T = celsiusToKelvin(70);
+		const vt = (k * T) / q;
+		// RS = 0: the junction voltage is the bias; 2q·(I_d + 2·IS) + 4kT/RSH per sample.
+		const power = (m: JunctionModel, bias: number) => {
+			const is = -referenceCurrent({ ...m, RSH: undefined }, -50, 70);
+			return 2 * q * (is * Math.expm1(bias / (m.N * vt)) + 2 * is) + (4 * k * T) / (m.RSH! / 2 ** ((70 - m.TNOM) / 10));
+		};
+		const expected = limits(upper.map((m) => power(m, v - 5)), k3).hi + limits(lower.map((m) => power(m, -5 - v)), k4).hi;
+		expectRelClose(circuit.point(v, 1).noiseBound, expected, 1e-6);
 	});
 });
 

@@ -13,6 +13,16 @@
  * same number: the maxima over assignments and over (V, T) can be taken in either order.
  * Typical: every position's median contribution (the median sample), summed.
  *
+ * Statistical bound (positions with a tolerance factor k, node.ts): at each point the
+ * position's sample currents share one sign (a junction's current has the sign of its bias),
+ * and y_s = ln|c(p,s)| gives the one-sided normal tolerance limits exp(ȳ ± k·s_y) on the
+ * magnitude (tolerance.ts; lot-to-lot leakage taken as log-normal, common practice). The
+ * highest net current takes each position's upper limit where it adds to the node's current
+ * and its lower limit where it subtracts (the lowest net current the other way round), the
+ * same stacking as the worst assignment with the limits in place of the extreme samples. A
+ * position without k (one sample, a given model) or at zero bias keeps its extreme samples.
+ * Noise bound: each position's exp(ȳ + k·s_y) over y = ln S_s, powers added.
+ *
  * Current noise (noise.ts): each position's power density at its bias; positions add in
  * power. Worst: each position's noisiest sample; typical: each position's median.
  *
@@ -20,9 +30,13 @@
  * worst grid point a golden-section refinement (maximize.ts). Junction currents are
  * monotone in their bias and each bias moves with the signal at slope +1, −1 or 0 (node
  * and guard move together), so with the node at the signal voltage the net current is
- * monotone in the signal and its worst magnitude lies at an end of the range; the grid and
- * the refinement still find an interior worst point of any curve that has one (the noise,
- * for instance, need not be monotone).
+ * monotone in the signal and its worst magnitude lies at an end of the range. Each
+ * junction's noise power is convex in its bias (its current is, and the shunt's share is
+ * constant), so the node's noise is convex in the signal and largest at an end too. These
+ * curves (worst and typical current, worst and typical noise) are therefore taken at the
+ * grid point where they are largest without refinement when that point is an end; the
+ * bound's curves (tolerance limits need not be monotone) and any interior grid maximum
+ * are refined.
  */
 import { SI_2019, type PhysicalConstants } from './constants';
 import { scaleModel, type ScaledJunction } from './temperature';
@@ -30,7 +44,7 @@ import { solveBias } from './shockley';
 import { noiseIsApproximate, noisePower } from './noise';
 import { evenGrid, refineMaximum } from './maximize';
 import { biasAt, biasRange, checkNetwork, leavingSign, NodeError, type NodeNetwork, type NodePosition } from './node';
-import { medianOfPrefix as median } from './catalogue-caches';
+import { positionTerms, T_BOUND_HIGH, T_BOUND_LOW, T_HIGH, T_LOW, T_NOISE_BOUND, T_NOISE_TYPICAL, T_NOISE_WORST, T_TYPICAL, TERMS } from './node-terms';
 
 export const DEFAULT_GRID_POINTS = 101;
 export const MIN_GRID_POINTS = 3;
@@ -48,6 +62,10 @@ export interface NodePoint {
 	/** Noise power density [A²/Hz]: every position's noisiest sample, and its median. */
 	noiseWorst: number;
 	noiseTypical: number;
+	/** Net current with each position at its tolerance limits, the larger magnitude of the two stackings [A]. */
+	boundA: number;
+	/** Noise power density with each position at its upper tolerance limit [A²/Hz]. */
+	noiseBound: number;
 }
 
 /** Where a net current is worst. */
@@ -89,7 +107,11 @@ export interface NodeEvaluation {
 	worstA: [Float64Array, Float64Array];
 	worst: NodeWorst;
 	typical: NodeExtreme;
-	noise: { worst: NoiseExtreme & { samples: number[] }; typical: NoiseExtreme; approximate: boolean };
+	noise: { worst: NoiseExtreme & { samples: number[] }; typical: NoiseExtreme; bound: NoiseExtreme | null; approximate: boolean };
+	/** The net current on the statistical bound (file header); null when no position has a tolerance factor. */
+	bound: NodeExtreme | null;
+	/** Net current on the bound at each grid point, [cold, hot] [A] (all NaN without a bound). */
+	boundA: [Float64Array, Float64Array];
 	positions: PositionAtWorst[];
 }
 
@@ -104,6 +126,8 @@ export class NodeCircuit {
 	private readonly scaled: ScaledJunction[][][];
 	private readonly contrib: Float64Array;
 	private readonly noise: Float64Array;
+	private readonly sort: Float64Array;
+	private readonly terms = new Float64Array(TERMS);
 
 	/** @throws NodeError for an invalid network, a position without samples or a model that cannot be scaled. */
 	constructor(net: NodeNetwork, positions: readonly NodePosition[], constants: PhysicalConstants = SI_2019) {
@@ -118,6 +142,7 @@ export class NodeCircuit {
 		const most = Math.max(...positions.map((p) => p.samples.length));
 		this.contrib = new Float64Array(most);
 		this.noise = new Float64Array(most);
+		this.sort = new Float64Array(most);
 	}
 
 	/**
@@ -155,28 +180,24 @@ export class NodeCircuit {
 
 	/** Net currents and noise at a signal voltage [V] and temperature end (file header). */
 	point(signalV: number, end: 0 | 1): NodePoint {
-		let high = 0;
-		let low = 0;
-		let typical = 0;
-		let noiseWorst = 0;
-		let noiseTypical = 0;
+		const sum = new Float64Array(TERMS);
+		const t = this.terms;
 		for (let p = 0; p < this.positions.length; p++) {
 			const n = this.fill(end, p, signalV);
-			let hi = -Infinity;
-			let lo = Infinity;
-			let nz = 0;
-			for (let s = 0; s < n; s++) {
-				hi = Math.max(hi, this.contrib[s]);
-				lo = Math.min(lo, this.contrib[s]);
-				nz = Math.max(nz, this.noise[s]);
-			}
-			high += hi;
-			low += lo;
-			noiseWorst += nz;
-			typical += median(this.contrib, n);
-			noiseTypical += median(this.noise, n);
+			positionTerms(this.contrib, this.noise, 0, n, this.positions[p].boundFactor, this.sort, t);
+			for (let i = 0; i < TERMS; i++) sum[i] += t[i];
 		}
-		return { highA: high, lowA: low, worstA: Math.abs(high) >= Math.abs(low) ? high : low, typicalA: typical, noiseWorst, noiseTypical };
+		const pick = (a: number, b: number) => (Math.abs(a) >= Math.abs(b) ? a : b);
+		return {
+			highA: sum[T_HIGH],
+			lowA: sum[T_LOW],
+			worstA: pick(sum[T_HIGH], sum[T_LOW]),
+			typicalA: sum[T_TYPICAL],
+			noiseWorst: sum[T_NOISE_WORST],
+			noiseTypical: sum[T_NOISE_TYPICAL],
+			boundA: pick(sum[T_BOUND_HIGH], sum[T_BOUND_LOW]),
+			noiseBound: sum[T_NOISE_BOUND]
+		};
 	}
 
 	/**
@@ -198,6 +219,11 @@ export class NodeCircuit {
 		return { samples, values };
 	}
 
+	/** Whether some position has a tolerance factor, so the node has a statistical bound. */
+	get hasBound(): boolean {
+		return this.positions.some((p) => p.boundFactor !== undefined && p.samples.length >= 2);
+	}
+
 	/**
 	 * The node over its signal range at both temperature ends: curves on a grid of
 	 * `gridPoints` signal voltages and the refined worst points (file header).
@@ -206,47 +232,41 @@ export class NodeCircuit {
 	evaluate(gridPoints = DEFAULT_GRID_POINTS): NodeEvaluation {
 		if (!Number.isInteger(gridPoints) || gridPoints < MIN_GRID_POINTS || gridPoints > MAX_GRID_POINTS)
 			throw new RangeError(`gridPoints must be a whole number from ${MIN_GRID_POINTS} to ${MAX_GRID_POINTS}, got ${gridPoints}`);
-		const [lo, hi] = this.net.signalRangeV;
-		const xs = evenGrid(lo, hi, gridPoints);
-		const n = xs.length;
-		const typicalA: [Float64Array, Float64Array] = [new Float64Array(n), new Float64Array(n)];
-		const worstA: [Float64Array, Float64Array] = [new Float64Array(n), new Float64Array(n)];
-		const noiseW: [Float64Array, Float64Array] = [new Float64Array(n), new Float64Array(n)];
-		const noiseT: [Float64Array, Float64Array] = [new Float64Array(n), new Float64Array(n)];
-		for (const end of [0, 1] as const)
-			for (let i = 0; i < n; i++) {
-				const pt = this.point(xs[i], end);
-				typicalA[end][i] = pt.typicalA;
-				worstA[end][i] = pt.worstA;
-				noiseW[end][i] = pt.noiseWorst;
-				noiseT[end][i] = pt.noiseTypical;
-			}
-		const worstAt = this.worstOf(xs, worstA, (v, e) => Math.abs(this.point(v, e).worstA));
-		const typicalAt = this.worstOf(xs, typicalA, (v, e) => Math.abs(this.point(v, e).typicalA));
-		const noiseWorstAt = this.worstOf(xs, noiseW, (v, e) => this.point(v, e).noiseWorst, false);
-		const noiseTypicalAt = this.worstOf(xs, noiseT, (v, e) => this.point(v, e).noiseTypical, false);
-
+		const xs = evenGrid(this.net.signalRangeV[0], this.net.signalRangeV[1], gridPoints);
+		const bounded = this.hasBound;
+		const curves = gridCurves(xs, bounded, (v, end) => this.point(v, end));
+		const at = (key: CurveKey, magnitude: boolean) =>
+			this.worstOf(xs, curves[key], (v, e) => (magnitude ? Math.abs(this.point(v, e)[key]) : this.point(v, e)[key]), magnitude, AT_AN_END.has(key));
+		const worstAt = at('worstA', true);
+		const typicalAt = at('typicalA', true);
+		const noiseWorstAt = at('noiseWorst', false);
+		const noiseTypicalAt = at('noiseTypical', false);
 		const wp = this.point(worstAt.signalV, worstAt.end);
-		const toward = wp.worstA === wp.highA ? 'high' : 'low';
-		const chosen = this.assignment(worstAt.signalV, worstAt.end, toward);
+		const chosen = this.assignment(worstAt.signalV, worstAt.end, wp.worstA === wp.highA ? 'high' : 'low');
 		const loud = this.assignment(noiseWorstAt.signalV, noiseWorstAt.end, 'noise');
-		const tp = this.point(typicalAt.signalV, typicalAt.end);
+		const where = (m: { signalV: number; end: 0 | 1 }) => ({ signalV: m.signalV, temperatureC: this.ends[m.end] });
+		const noiseAt = (m: { signalV: number; end: 0 | 1; y: number }) => ({ densityA_rtHz: Math.sqrt(m.y), ...where(m) });
+		let bound: NodeExtreme | null = null;
+		let noiseBound: NoiseExtreme | null = null;
+		if (bounded) {
+			const b = at('boundA', true);
+			bound = { netCurrentA: this.point(b.signalV, b.end).boundA, ...where(b) };
+			noiseBound = noiseAt(at('noiseBound', false));
+		}
 		return {
 			coldC: this.ends[0],
 			hotC: this.ends[1],
 			signalV: xs,
-			typicalA,
-			worstA,
-			worst: { netCurrentA: wp.worstA, signalV: worstAt.signalV, temperatureC: this.ends[worstAt.end], samples: chosen.samples },
-			typical: { netCurrentA: tp.typicalA, signalV: typicalAt.signalV, temperatureC: this.ends[typicalAt.end] },
+			typicalA: curves.typicalA,
+			worstA: curves.worstA,
+			boundA: curves.boundA,
+			worst: { netCurrentA: wp.worstA, ...where(worstAt), samples: chosen.samples },
+			typical: { netCurrentA: this.point(typicalAt.signalV, typicalAt.end).typicalA, ...where(typicalAt) },
+			bound,
 			noise: {
-				worst: {
-					densityA_rtHz: Math.sqrt(noiseWorstAt.y),
-					signalV: noiseWorstAt.signalV,
-					temperatureC: this.ends[noiseWorstAt.end],
-					samples: loud.samples
-				},
-				typical: { densityA_rtHz: Math.sqrt(noiseTypicalAt.y), signalV: noiseTypicalAt.signalV, temperatureC: this.ends[noiseTypicalAt.end] },
+				worst: { ...noiseAt(noiseWorstAt), samples: loud.samples },
+				typical: noiseAt(noiseTypicalAt),
+				bound: noiseBound,
 				approximate: this.positions.some((p) => p.samples.some((m) => noiseIsApproximate(m.N)))
 			},
 			positions: this.positions.map((p, k) => ({ biasRangeV: biasRange(this.net, p), currentA: chosen.values[k], noiseA_rtHz: loud.values[k] }))
@@ -255,20 +275,49 @@ export class NodeCircuit {
 
 	/**
 	 * The larger of the two ends' refined maxima of a curve sampled on the grid (of its
-	 * magnitude when `magnitude`), with the end it belongs to. Ties go to the hot end.
+	 * magnitude when `magnitude`), with the end it belongs to. Ties go to the hot end. With
+	 * `endMaximum` (a curve largest at an end of the range, file header) a grid maximum at an
+	 * end is taken as it is.
 	 */
 	private worstOf(
 		xs: Float64Array,
 		curves: [Float64Array, Float64Array],
 		f: (signalV: number, end: 0 | 1) => number,
-		magnitude = true
+		magnitude = true,
+		endMaximum = false
 	): { signalV: number; end: 0 | 1; y: number } {
 		let best = { signalV: xs[0], end: 1 as 0 | 1, y: -Infinity };
 		for (const end of [1, 0] as const) {
 			const ys = magnitude ? curves[end].map(Math.abs) : curves[end];
-			const m = refineMaximum((v) => f(v, end), xs, ys);
+			const k = argMax(ys);
+			const m = endMaximum && (k === 0 || k === ys.length - 1) ? { x: xs[k], y: ys[k] } : refineMaximum((v) => f(v, end), xs, ys);
 			if (m.y > best.y) best = { signalV: m.x, end, y: m.y };
 		}
 		return best;
 	}
+}
+
+type CurveKey = 'worstA' | 'typicalA' | 'boundA' | 'noiseWorst' | 'noiseTypical' | 'noiseBound';
+/** Curves whose largest value lies at an end of the signal range (file header). */
+const AT_AN_END: ReadonlySet<CurveKey> = new Set(['worstA', 'typicalA', 'noiseWorst', 'noiseTypical']);
+
+/** Index of the largest value (the first of equals; NaN passed over). */
+function argMax(ys: ArrayLike<number>): number {
+	let k = 0;
+	for (let i = 1; i < ys.length; i++) if (ys[i] > ys[k] || Number.isNaN(ys[k])) k = i;
+	return k;
+}
+const CURVE_KEYS: readonly CurveKey[] = ['worstA', 'typicalA', 'boundA', 'noiseWorst', 'noiseTypical', 'noiseBound'];
+
+/** Every curve of NodePoint on the grid at [cold, hot]; the bound's stay NaN without a bound. */
+function gridCurves(xs: Float64Array, bounded: boolean, point: (v: number, end: 0 | 1) => NodePoint): Record<CurveKey, [Float64Array, Float64Array]> {
+	const n = xs.length;
+	const out = {} as Record<CurveKey, [Float64Array, Float64Array]>;
+	for (const key of CURVE_KEYS) out[key] = [new Float64Array(n), new Float64Array(n)];
+	for (const end of [0, 1] as const)
+		for (let i = 0; i < n; i++) {
+			const pt = point(xs[i], end);
+			for (const key of CURVE_KEYS) out[key][end][i] = bounded || (key !== 'boundA' && key !== 'noiseBound') ? pt[key] : NaN;
+		}
+	return out;
 }

@@ -39,7 +39,7 @@ export const ERROR_SHIFT_FRACTION = 0.1;
 export const NODE_FLAG_WORDS: Record<NodeFlagCode, { short: string; long: string; caution: boolean }> = {
 	'over-net-current-limit': {
 		short: 'net current over limit',
-		long: 'The worst net node current (or its error voltage across the source resistance) exceeds what you allowed.',
+		long: 'The net node current on the ranking’s basis (or its error voltage across the source resistance) exceeds what you allowed.',
 		caution: true
 	},
 	// One code and one text with the single-junction ranking's noise limit.
@@ -68,6 +68,7 @@ export const NODE_FLAG_WORDS: Record<NodeFlagCode, { short: string; long: string
 
 /** What the node's figures were, for `nodeFlags`. */
 export interface NodeFigures {
+	/** Net current [A], its error voltage [V] and the noise density [A/√Hz] on the basis the limits are judged on. */
 	worstNetA: number;
 	errorVoltageV: number | null;
 	noiseA_rtHz: number;

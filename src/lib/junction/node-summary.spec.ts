@@ -6,6 +6,7 @@ import { summarizeNode } from './node-summary';
 import { forwardVoltage } from './shockley';
 import type { NodeNetwork } from './node';
 import { expectRelClose } from './test-helpers';
+import { toleranceFactor } from './tolerance';
 
 const m = createModel({ IS: 1e-13, N: 1, RSH: 1e11 });
 const railPair: NodeNetwork = { rails: { VPOS: 5, VNEG: -5 }, signalRangeV: [-2, 2], temperatureRangeC: [0, 70] };
@@ -57,5 +58,22 @@ describe('a node summary', () => {
 		const s = summarizeNode(circuit(), { sourceResistanceOhm: 1e12 });
 		expect(s.errorVoltageV!).toBeGreaterThan(2.6e-3);
 		expect(s.flags).toContain('error-shifts-bias');
+	});
+
+	it('judges the limits on the basis: the bound where there is one, else the worst assignment', () => {
+		const lot = [1, 2.5, 0.6].map((f) => createModel({ IS: 1e-13 * f, N: 1, RSH: 1e11 / f }));
+		const k = toleranceFactor(3, 0.95, 0.9);
+		const bounded = () => new NodeCircuit(railPair, NODE_PRESETS['rail-pair'].junctions.map((j) => ({ ...j, samples: lot, boundFactor: k })));
+		const free = summarizeNode(bounded());
+		const worst = Math.abs(free.evaluation.worst.netCurrentA);
+		const bound = Math.abs(free.evaluation.bound!.netCurrentA);
+		expect(bound).toBeGreaterThan(worst);
+		const limits = { maxNetCurrentA: Math.sqrt(worst * bound) };
+		expect(summarizeNode(bounded(), { limits }).flags).toContain('over-net-current-limit');
+		expect(summarizeNode(bounded(), { limits, basis: 'worst' }).flags).not.toContain('over-net-current-limit');
+		expect(summarizeNode(bounded(), { limits, basis: 'bound' }).judged).toMatchObject({ basis: 'bound', hasValue: true });
+		// One sample per position: no bound, the worst assignment stands in and says so.
+		const single = summarizeNode(circuit(), { limits: { maxNetCurrentA: 1 } });
+		expect(single.judged).toMatchObject({ basis: 'bound', hasValue: false, netCurrentA: single.evaluation.worst.netCurrentA });
 	});
 });

@@ -50,6 +50,11 @@ export interface Placement {
 /** A junction position with the models it may take (one per measured sample). */
 export interface NodePosition extends Placement {
 	samples: readonly JunctionModel[];
+	/**
+	 * One-sided tolerance factor k for this position's samples (tolerance.ts), when they are
+	 * two or more measured samples of a part; absent: no statistical bound for the position.
+	 */
+	boundFactor?: number;
 }
 
 /** One problem with a network, naming the field as the API spells it. */

@@ -70,5 +70,5 @@ export {
 	type RankBasis
 } from './operating-point';
 export { logNormalUpperBound, noncentralTCdf, noncentralTQuantile, toleranceFactor } from './tolerance';
-export type { BoundTerms, Evidence, PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
+export type { BoundTerms, CatalogueView, Evidence, PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
 export type { JunctionKind } from './names';

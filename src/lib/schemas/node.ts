@@ -19,7 +19,7 @@ import {
 	type NodeNetwork
 } from '$lib/junction';
 import { NODE_FLAG_WORDS, type NodeFlagCode } from '$lib/junction/node-limits';
-import { FLAG_WORDS, spiceModelSchema } from './rank';
+import { FLAG_WORDS, operatingPointSchema, spiceModelSchema } from './rank';
 import { MAX_ID } from '../../params/id';
 
 const ABS_ZERO_C = -273.15;
@@ -64,7 +64,11 @@ const nodeFields = z
 		maxNetCurrentA: positive('maxNetCurrentA').optional(),
 		allowedErrorV: positive('allowedErrorV').optional(),
 		maxNoiseA_rtHz: positive('maxNoiseA_rtHz').optional(),
-		maxExcursionV: positive('maxExcursionV').optional()
+		maxExcursionV: positive('maxExcursionV').optional(),
+		/** What the limits are judged on, and the statistical bound's terms: as in POST /api/v1/rank. */
+		basis: operatingPointSchema.shape.basis,
+		coverage: operatingPointSchema.shape.coverage,
+		confidence: operatingPointSchema.shape.confidence
 	})
 	.strict();
 
@@ -82,7 +86,7 @@ export function networkOf(n: Pick<NodeFields, 'rails' | 'guard' | 'signalRangeV'
 }
 
 /** The checks every node shares: temperatures, the limits' companions, the network's rules. */
-function checkNode(n: NodeFields, ctx: z.RefinementCtx): void {
+export function checkNode(n: NodeFields, ctx: z.RefinementCtx): void {
 	if ((n.temperatureC === undefined) === (n.temperatureRangeC === undefined))
 		ctx.addIssue({ code: 'custom', path: ['temperatureC'], message: 'Give either temperatureC or temperatureRangeC: [cold, hot], not both and not neither.' });
 	if (n.temperatureRangeC && n.temperatureRangeC[0] > n.temperatureRangeC[1])
@@ -173,6 +177,16 @@ export type NodeJunctionOut = {
 export type NodeResponse = {
 	worst: NodeWorstOut;
 	typical: NodeWorstOut;
+	/**
+	 * The net current with each catalogue part's position at its one-sided tolerance limits
+	 * (coverage and confidence as asked); null when no position holds two or more measured samples.
+	 */
+	bound: NodeWorstOut | null;
+	/** The basis the limits were judged on, whether the node had a value on it (else the worst stood in), and the bound's terms. */
+	basis: 'bound' | 'worst' | 'typical';
+	hasValueOnBasis: boolean;
+	coverage: number;
+	confidence: number;
 	/** |worst net current| × source resistance [V]; null without one. */
 	errorVoltageV: number | null;
 	typicalErrorVoltageV: number | null;
@@ -181,13 +195,16 @@ export type NodeResponse = {
 		signalV: number;
 		temperatureC: number;
 		typicalA_rtHz: number;
+		/** On the statistical bound (null as for `bound`). */
+		boundA_rtHz: number | null;
 		/** True when a junction has N > 1, where the shot-noise form is an approximation near zero bias. */
 		approximate: boolean;
 		note: string;
 	};
 	/** The fault as stated (and, in `opposite`, the same current the other way); null without a fault current. */
 	fault: (FaultOut & { opposite: FaultOut }) | null;
-	curve: { signalV: number; netCurrentA: { cold: number; hot: number }; worstA: { cold: number; hot: number } }[];
+	/** Typical net current (`netCurrentA`), worst assignment and bound (null without one) at each grid point. */
+	curve: { signalV: number; netCurrentA: { cold: number; hot: number }; worstA: { cold: number; hot: number }; boundA: { cold: number; hot: number } | null }[];
 	junctions: NodeJunctionOut[];
 	coldC: number;
 	hotC: number;

@@ -5,7 +5,10 @@
  */
 import {
 	createModel,
+	DEFAULT_CONFIDENCE,
+	DEFAULT_COVERAGE,
 	NodeCircuit,
+	toleranceFactor,
 	NodeError,
 	NOISE_APPROXIMATION_NOTE,
 	summarizeNode,
@@ -31,32 +34,55 @@ export type ResolvedPosition = NodePosition & { part: CachedPart | null; label: 
 
 type NodeShape = Omit<NodeRequest, 'junctions'> & { junctions: NodeJunctionInput[] };
 
+/** The bound's coverage and confidence a node asks for, defaults filled in. */
+export function judgementTerms(node: { coverage?: number; confidence?: number }): { coverage: number; confidence: number } {
+	return { coverage: node.coverage ?? DEFAULT_COVERAGE, confidence: node.confidence ?? DEFAULT_CONFIDENCE };
+}
+
+/** A catalogue part's position: its samples, with the tolerance factor when they are two or more measured ones. */
+function partPosition(part: CachedPart, terms: { coverage: number; confidence: number }): Pick<NodePosition, 'samples' | 'boundFactor'> {
+	const samples = part.record.samples;
+	const measured = part.evidence === 'measured' && samples.length >= 2;
+	return { samples, ...(measured ? { boundFactor: toleranceFactor(samples.length, terms.coverage, terms.confidence) } : {}) };
+}
+
 /**
  * Engine positions for a request's junctions; candidate positions take `candidate`.
  * @throws DomainError 422 naming the junction whose part is unknown or whose model is unusable.
  */
-export function resolvePositions(junctions: NodeJunctionInput[], snap: CacheSnapshot, candidate?: CachedPart): ResolvedPosition[] {
+export function resolvePositions(
+	junctions: NodeJunctionInput[],
+	snap: CacheSnapshot,
+	candidate?: CachedPart,
+	terms: { coverage: number; confidence: number } = judgementTerms({})
+): ResolvedPosition[] {
 	return junctions.map((j, i) => {
-		const base = { anode: j.anode, cathode: j.cathode, label: j.label ?? null };
-		if (j.candidate) {
-			if (!candidate) throw new DomainError(422, `junctions[${i}] is a candidate position, with no part to fill it.`, [{ path: `junctions.${i}`, message: 'No part.' }]);
-			return { ...base, samples: candidate.record.samples, part: candidate };
-		}
-		if (j.id !== undefined) {
-			const k = snap.indexOf.get(j.id);
-			if (k === undefined)
-				throw new DomainError(422, `junctions[${i}]: the catalogue has no part ${j.id} with a usable model.`, [{ path: `junctions.${i}.id`, message: `No part ${j.id} with a usable model.` }]);
-			const part = snap.parts[k];
-			return { ...base, samples: part.record.samples, part };
-		}
-		try {
-			const { material, ...params } = j.model!;
-			return { ...base, samples: [createModel(params, material)], part: null };
-		} catch (e) {
-			const message = (e as Error).message;
-			throw new DomainError(422, `junctions[${i}]: the model is not usable: ${message}.`, [{ path: `junctions.${i}.model`, message }]);
-		}
+		if (!j.candidate) return resolveJunction(j, i, snap, terms);
+		if (!candidate) throw new DomainError(422, `junctions[${i}] is a candidate position, with no part to fill it.`, [{ path: `junctions.${i}`, message: 'No part.' }]);
+		return { anode: j.anode, cathode: j.cathode, label: j.label ?? null, ...partPosition(candidate, terms), part: candidate };
 	});
+}
+
+/**
+ * The engine position of a junction that names its part (`id`) or carries an inline model; `i` is its index in the request.
+ * @throws DomainError 422 naming the junction whose part is unknown or whose model is unusable.
+ */
+export function resolveJunction(j: NodeJunctionInput, i: number, snap: CacheSnapshot, terms: { coverage: number; confidence: number }): ResolvedPosition {
+	const base = { anode: j.anode, cathode: j.cathode, label: j.label ?? null };
+	if (j.id !== undefined) {
+		const k = snap.indexOf.get(j.id);
+		if (k === undefined)
+			throw new DomainError(422, `junctions[${i}]: the catalogue has no part ${j.id} with a usable model.`, [{ path: `junctions.${i}.id`, message: `No part ${j.id} with a usable model.` }]);
+		const part = snap.parts[k];
+		return { ...base, ...partPosition(part, terms), part };
+	}
+	try {
+		const { material, ...params } = j.model!;
+		return { ...base, samples: [createModel(params, material)], part: null };
+	} catch (e) {
+		const message = (e as Error).message;
+		throw new DomainError(422, `junctions[${i}]: the model is not usable: ${message}.`, [{ path: `junctions.${i}.model`, message }]);
+	}
 }
 
 /** The engine's circuit for a node and its positions. @throws DomainError 422 for what the engine refuses. */
@@ -76,6 +102,7 @@ export function summaryOf(node: NodeShape, circuit: NodeCircuit, gridPoints?: nu
 		gridPoints: gridPoints ?? node.gridPoints,
 		...(node.sourceResistanceOhm !== undefined ? { sourceResistanceOhm: node.sourceResistanceOhm } : {}),
 		...(node.faultCurrentA !== undefined ? { faultCurrentA: node.faultCurrentA } : {}),
+		...(node.basis !== undefined ? { basis: node.basis } : {}),
 		limits: {
 			...(node.maxNetCurrentA !== undefined ? { maxNetCurrentA: node.maxNetCurrentA } : {}),
 			...(node.allowedErrorV !== undefined ? { allowedErrorV: node.allowedErrorV } : {}),
@@ -96,7 +123,7 @@ function faultOut(f: FaultAtEnds): FaultOut {
 }
 
 /** The API's answer for a summary (NodeResponse in $lib/schemas/node). */
-export function nodeResponse(s: NodeSummary, positions: ResolvedPosition[]): NodeResponse {
+export function nodeResponse(s: NodeSummary, positions: ResolvedPosition[], terms: { coverage: number; confidence: number }): NodeResponse {
 	const ev = s.evaluation;
 	return {
 		worst: {
@@ -106,6 +133,10 @@ export function nodeResponse(s: NodeSummary, positions: ResolvedPosition[]): Nod
 			samples: ev.worst.samples.map((sample, position) => ({ position, sample }))
 		},
 		typical: { ...ev.typical },
+		bound: ev.bound ? { ...ev.bound } : null,
+		basis: s.judged.basis,
+		hasValueOnBasis: s.judged.hasValue,
+		...terms,
 		errorVoltageV: s.errorVoltageV,
 		typicalErrorVoltageV: s.typicalErrorVoltageV,
 		noise: {
@@ -113,6 +144,7 @@ export function nodeResponse(s: NodeSummary, positions: ResolvedPosition[]): Nod
 			signalV: ev.noise.worst.signalV,
 			temperatureC: ev.noise.worst.temperatureC,
 			typicalA_rtHz: ev.noise.typical.densityA_rtHz,
+			boundA_rtHz: ev.noise.bound?.densityA_rtHz ?? null,
 			approximate: ev.noise.approximate,
 			note: NOISE_APPROXIMATION_NOTE
 		},
@@ -120,7 +152,8 @@ export function nodeResponse(s: NodeSummary, positions: ResolvedPosition[]): Nod
 		curve: Array.from(ev.signalV, (signalV, i) => ({
 			signalV,
 			netCurrentA: { cold: ev.typicalA[0][i], hot: ev.typicalA[1][i] },
-			worstA: { cold: ev.worstA[0][i], hot: ev.worstA[1][i] }
+			worstA: { cold: ev.worstA[0][i], hot: ev.worstA[1][i] },
+			boundA: ev.bound ? { cold: ev.boundA[0][i], hot: ev.boundA[1][i] } : null
 		})),
 		junctions: positions.map((p, position) => ({
 			position,
@@ -144,8 +177,9 @@ export function nodeResponse(s: NodeSummary, positions: ResolvedPosition[]): Nod
 /** POST /api/v1/node: a node whose junctions are all given. */
 export async function evaluateNode(req: NodeRequest): Promise<NodeResponse> {
 	const snap = (await modelCache()).snapshot;
-	const positions = resolvePositions(req.junctions, snap);
-	return nodeResponse(summaryOf(req, circuitOf(req, positions)), positions);
+	const terms = judgementTerms(req);
+	const positions = resolvePositions(req.junctions, snap, undefined, terms);
+	return nodeResponse(summaryOf(req, circuitOf(req, positions)), positions, terms);
 }
 
 /** The figures a saved node gives one part (NodeEntryPrediction in $lib/schemas/node). */
@@ -174,7 +208,7 @@ export function predictNode(node: NodeRequirement, partIds: number[], snap: Cach
 		const k = snap.indexOf.get(id);
 		if (k === undefined) continue;
 		try {
-			const positions = resolvePositions(node.junctions, snap, snap.parts[k]);
+			const positions = resolvePositions(node.junctions, snap, snap.parts[k], judgementTerms(node));
 			out.set(id, entryPrediction(summaryOf(node, circuitOf(node, positions))));
 		} catch (e) {
 			if (e instanceof DomainError) continue;

@@ -78,7 +78,7 @@ export function matchesFilters(part: CachedPart, op: RankOperatingPoint): boolea
 }
 
 /** The catalogue filters as one predicate, with the request's words and packages prepared once. */
-function filterOf(op: RankOperatingPoint): (part: CachedPart) => boolean {
+export function filterOf(op: Pick<RankOperatingPoint, 'kinds' | 'lifecycles' | 'packages' | 'q'>): (part: CachedPart) => boolean {
 	const kinds = op.kinds?.length ? new Set<string>(op.kinds) : null;
 	const lifecycles = op.lifecycles?.length ? new Set<string>(op.lifecycles) : null;
 	const packages = op.packages?.length ? new Set(op.packages.map((p) => p.toLowerCase())) : null;

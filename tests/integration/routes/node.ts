@@ -9,7 +9,15 @@ const node = {
 	junctions: [{ model: { IS: 1e-14, N: 1 }, anode: 'node', cathode: 'VPOS' }]
 };
 export const nodeRoutes: RouteCase[] = [
-	{ route: '/api/v1/node', method: 'POST', path: '/api/v1/node', allow: 'any-role', kind: 'api', json: node }
+	{ route: '/api/v1/node', method: 'POST', path: '/api/v1/node', allow: 'any-role', kind: 'api', json: node },
+	{
+		route: '/api/v1/node/rank',
+		method: 'POST',
+		path: '/api/v1/node/rank',
+		allow: 'any-role',
+		kind: 'api',
+		json: { ...node, junctions: [{ candidate: true, anode: 'node', cathode: 'VPOS' }], limit: 1 }
+	}
 ];
 
 const savedNode = { rails: { VPOS: 5, VNEG: -5 }, signalRangeV: [-2, 2], temperatureC: 25, junctions: [{ candidate: true, anode: 'node', cathode: 'VPOS' }] };

@@ -22,6 +22,19 @@ describe('the node screen', () => {
 		expect(r.text).toMatch(/above VPOS/);
 	});
 
+	test('ranks the catalogue when a position is a candidate, on the basis and order chosen', async () => {
+		const f = presetFields('rail-pair');
+		const r = await browse(`/node?${queryFromFields(f)}`, { as: 'designer' });
+		expect(r.status).toBe(200);
+		expect(r.text).toContain('data-testid="node-ranking"');
+		expect(r.text).toContain('Ranked by statistical bound');
+		expect(r.text).toContain('HRB-D10');
+		const byNoise = await browse(`/node?${queryFromFields({ ...f, basis: 'typical', by: 'noise' })}`, { as: 'designer' });
+		expect(byNoise.text).toMatch(/Ranked by typical \(median\) sample, current noise/);
+		const none = await browse(`/node?${queryFromFields({ ...f, q: 'no-such-part-anywhere' })}`, { as: 'lead' });
+		expect(none.text).toContain('No catalogue part matches the candidate filters.');
+	});
+
 	test('adds and drops rows through the submitted edit, and names the field that is wrong', async () => {
 		const f = presetFields('rail-pair');
 		const added = await browse(`/node?${queryFromFields(f)}&edit=add-rail`, { as: 'designer' });

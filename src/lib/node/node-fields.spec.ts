@@ -19,6 +19,20 @@ describe('node fields', () => {
 			expect(node!.junctions).toEqual(p.junctions.map((j, i) => ({ ...j, label: `D${i + 1}`, candidate: true })));
 		});
 
+	it('keeps the ranking basis and order in the URL, leaving the defaults out, and ignores unknown ones', () => {
+		const f = { ...presetFields('rail-pair'), basis: 'worst' as const, by: 'noise' as const };
+		const q = queryFromFields(f);
+		expect(new URLSearchParams(q).get('basis')).toBe('worst');
+		expect(new URLSearchParams(q).get('by')).toBe('noise');
+		expect(fieldsFromQuery(new URLSearchParams(q))).toEqual(f);
+		expect(parseNodeFields(f).node!.basis).toBe('worst');
+		const plain = queryFromFields(presetFields('rail-pair'));
+		expect(plain).not.toMatch(/basis=|by=/);
+		const odd = fieldsFromQuery(new URLSearchParams(`${plain}&basis=median&by=price`));
+		expect([odd.basis, odd.by]).toEqual(['bound', 'net']);
+		expect(parseNodeFields(odd).node!.basis).toBeUndefined();
+	});
+
 	it('reads what a designer types: SI prefixes, units, a noise density and a named part', () => {
 		const f = { ...presetFields('rail-pair'), maxNet: '10p', maxNoise: '5 fA/√Hz', allowedError: '2 mV', tLo: '', tHi: '85 °C' };
 		f.positions[1].part = 'QX-101';

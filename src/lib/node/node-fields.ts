@@ -8,7 +8,9 @@
  * fault (fault current, positive into the node), inet (allowed net current), verr (allowed
  * error voltage), noise (allowed noise density), vexc (allowed fault excursion), ja/jc/jp/jl
  * (junction anode, cathode, part number — empty for a candidate position — and label,
- * repeated in order), kind (repeated) and q (catalogue filters for the candidates).
+ * repeated in order), kind (repeated) and q (catalogue filters for the candidates), basis
+ * (bound | worst | typical; left out for the default, bound) and by (net | noise: what a
+ * ranking orders by; left out for net).
  */
 import {
 	formatSI,
@@ -22,6 +24,8 @@ import {
 	type NodePresetKey
 } from '$lib/junction';
 import { JUNCTION_KINDS, type JunctionKind } from '$lib/junction/names';
+import { DEFAULT_BASIS, RANK_BASES, type RankBasis } from '$lib/junction/operating-point';
+import { NODE_RANK_BY, type NodeRankBy } from '$lib/junction/node-rank';
 
 export type RailRow = { name: string; volts: string };
 /** `part` empty: a candidate position, filled by each catalogue part in turn. */
@@ -43,12 +47,14 @@ export type NodeFields = {
 	positions: PositionRow[];
 	kinds: JunctionKind[];
 	q: string;
+	basis: RankBasis;
+	by: NodeRankBy;
 };
 
 /** Errors keyed by field: `sigLo`, `rails.0.volts`, `positions.1.part`, … */
 export type NodeFieldErrors = Record<string, string>;
 
-type TextField = Exclude<keyof NodeFields, 'rails' | 'positions' | 'kinds'>;
+type TextField = Exclude<keyof NodeFields, 'rails' | 'positions' | 'kinds' | 'basis' | 'by'>;
 const TEXT_PARAMS: [TextField, string][] = [
 	['guard', 'guard'],
 	['sigLo', 'slo'],
@@ -65,7 +71,25 @@ const TEXT_PARAMS: [TextField, string][] = [
 ];
 
 export function emptyNodeFields(): NodeFields {
-	return { rails: [], guard: '', sigLo: '', sigHi: '', tLo: '', tHi: '', source: '', fault: '', maxNet: '', allowedError: '', maxNoise: '', maxExcursion: '', positions: [], kinds: [], q: '' };
+	return {
+		rails: [],
+		guard: '',
+		sigLo: '',
+		sigHi: '',
+		tLo: '',
+		tHi: '',
+		source: '',
+		fault: '',
+		maxNet: '',
+		allowedError: '',
+		maxNoise: '',
+		maxExcursion: '',
+		positions: [],
+		kinds: [],
+		q: '',
+		basis: DEFAULT_BASIS,
+		by: 'net'
+	};
 }
 
 /** A preset's node as the fields show it (every position a candidate). */
@@ -95,6 +119,10 @@ export function fieldsFromQuery(q: URLSearchParams): NodeFields {
 	const [ja, jc, jp, jl] = ['ja', 'jc', 'jp', 'jl'].map((n) => q.getAll(n));
 	f.positions = ja.map((anode, i) => ({ anode, cathode: jc[i] ?? '', part: jp[i] ?? '', label: jl[i] ?? '' }));
 	f.kinds = q.getAll('kind').filter((k): k is JunctionKind => (JUNCTION_KINDS as readonly string[]).includes(k));
+	const basis = q.get('basis') ?? '';
+	if ((RANK_BASES as readonly string[]).includes(basis)) f.basis = basis as RankBasis;
+	const by = q.get('by') ?? '';
+	if ((NODE_RANK_BY as readonly string[]).includes(by)) f.by = by as NodeRankBy;
 	return f;
 }
 
@@ -113,6 +141,8 @@ export function queryFromFields(f: NodeFields): string {
 		q.append('jl', p.label);
 	}
 	for (const k of f.kinds) q.append('kind', k);
+	if (f.basis !== DEFAULT_BASIS) q.set('basis', f.basis);
+	if (f.by !== 'net') q.set('by', f.by);
 	return q.toString();
 }
 
@@ -132,6 +162,7 @@ export type ParsedNode = {
 	allowedErrorV?: number;
 	maxNoiseA_rtHz?: number;
 	maxExcursionV?: number;
+	basis?: RankBasis;
 	junctions: ParsedPosition[];
 };
 
@@ -207,6 +238,7 @@ export function parseNodeFields(f: NodeFields): { node?: ParsedNode; errors: Nod
 			...(allowedError !== undefined ? { allowedErrorV: allowedError } : {}),
 			...(maxNoise !== undefined ? { maxNoiseA_rtHz: maxNoise } : {}),
 			...(maxExcursion !== undefined ? { maxExcursionV: maxExcursion } : {}),
+			...(f.basis !== DEFAULT_BASIS ? { basis: f.basis } : {}),
 			junctions
 		}
 	};
@@ -233,7 +265,8 @@ export function fieldOfIssue(path: string, f: NodeFields): string {
 		maxNetCurrentA: 'maxNet',
 		allowedErrorV: 'allowedError',
 		maxNoiseA_rtHz: 'maxNoise',
-		maxExcursionV: 'maxExcursion'
+		maxExcursionV: 'maxExcursion',
+		basis: 'basis'
 	};
 	return map[parts[0]] ?? 'form';
 }
@@ -268,6 +301,7 @@ export function fieldsFromNode(
 		allowedErrorV?: number;
 		maxNoiseA_rtHz?: number;
 		maxExcursionV?: number;
+		basis?: RankBasis;
 		junctions: { anode: string; cathode: string; id?: number; label?: string; candidate?: boolean }[];
 	},
 	partNumberOf: (id: number) => string
@@ -287,6 +321,7 @@ export function fieldsFromNode(
 		allowedError: opt(n.allowedErrorV, 'V'),
 		maxNoise: n.maxNoiseA_rtHz === undefined ? '' : `${formatSI(n.maxNoiseA_rtHz, 'A', { digits: 6 })}/√Hz`,
 		maxExcursion: opt(n.maxExcursionV, 'V'),
+		basis: n.basis ?? DEFAULT_BASIS,
 		positions: n.junctions.map((j) => ({ anode: j.anode, cathode: j.cathode, part: j.id !== undefined ? partNumberOf(j.id) : '', label: j.label ?? '' }))
 	};
 }

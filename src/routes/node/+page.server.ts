@@ -4,6 +4,8 @@ import { NODE_PRESET_KEYS, NODE_PRESETS, type NodePresetKey } from '$lib/junctio
 import { requirePermission } from '$lib/server/guards';
 import { DomainError } from '$lib/server/api';
 import { evaluateNode } from '$lib/server/node';
+import { rankNodeCatalogue } from '$lib/server/node-rank';
+import { nodeRankRequestSchema, type NodeRankResponse } from '$lib/schemas/node-rank';
 import { nodeFromFields } from '$lib/server/node-form';
 import * as projects from '$lib/server/projects';
 import { applyEdit, fieldsFromQuery, presetFields, queryFromFields } from '$lib/node/node-fields';
@@ -14,6 +16,22 @@ import type { Actions, PageServerLoad } from './$types';
 
 const isPreset = (k: string | null): k is NodePresetKey => (NODE_PRESET_KEYS as readonly string[]).includes(k ?? '');
 
+/** Parts the screen lists, and how many of the leading ones it draws. */
+const LISTED = 25;
+const DRAWN = 3;
+
+/** The ranking request for a node with candidate positions: the screen's filters and order, the leading parts' curves. */
+function rankRequest(node: object, fields: ReturnType<typeof fieldsFromQuery>) {
+	return nodeRankRequestSchema.parse({
+		...node,
+		...(fields.kinds.length ? { kinds: fields.kinds } : {}),
+		...(fields.q.trim() ? { q: fields.q.trim() } : {}),
+		by: fields.by,
+		limit: LISTED,
+		withCurves: DRAWN
+	});
+}
+
 // The page evaluates on the server too, so the GET form works without JavaScript.
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'rank:use');
@@ -23,13 +41,13 @@ export const load: PageServerLoad = async (event) => {
 	fields = applyEdit(fields, params.get('edit'));
 	const { node, candidates, errors } = await nodeFromFields(fields);
 	let evaluation: NodeResponse | null = null;
-	if (node && !candidates) {
-		try {
-			evaluation = await evaluateNode(node);
-		} catch (e) {
-			if (!(e instanceof DomainError)) throw e;
-			errors.form = e.message;
-		}
+	let ranking: NodeRankResponse | null = null;
+	try {
+		if (node && !candidates) evaluation = await evaluateNode(node);
+		else if (node) ranking = await rankNodeCatalogue(rankRequest(node, fields));
+	} catch (e) {
+		if (!(e instanceof DomainError)) throw e;
+		errors.form = e.message;
 	}
 	const canSave = can(user, 'shortlist:edit');
 	const open = canSave ? (await projects.list()).filter((p) => isEditable(p.state)) : [];
@@ -38,6 +56,7 @@ export const load: PageServerLoad = async (event) => {
 		errors,
 		candidates,
 		evaluation,
+		ranking,
 		query: queryFromFields(fields),
 		presets: NODE_PRESET_KEYS.map((k) => ({ key: k, name: NODE_PRESETS[k].name, summary: NODE_PRESETS[k].summary })),
 		canSave,

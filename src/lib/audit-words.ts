@@ -49,6 +49,8 @@ export const AUDIT_ACTIONS: Record<string, Entry> = {
 		label: 'Project lead changed',
 		words: (f) => (f.detail.to ? `named ${str(f.detail.toName, str(f.detail.to, 'someone'))} the lead` : 'let any lead decide')
 	},
+	'project.node-set': { label: 'Protected node set', words: () => 'set the protected node the shortlist is judged in' },
+	'project.node-removed': { label: 'Protected node taken out', words: () => 'took the protected node out of the requirement' },
 	'shortlist.added': { label: 'Part put on a shortlist', words: (f) => `added ${str(f.detail.partNumber, 'a part')} to the shortlist${quoted(f.detail.note)}` },
 	'shortlist.removed': { label: 'Part taken off a shortlist', words: (f) => `removed ${str(f.detail.partNumber, 'a part')} from the shortlist` },
 	'review.submit': { label: 'Shortlist sent for review', words: () => 'sent the shortlist to the lead' },

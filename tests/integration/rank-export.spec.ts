@@ -45,6 +45,7 @@ function expectedCells(item: RankItem): Record<string, string | number | null> {
 		'Forward drop worst': item.forwardDropV?.worst ?? null,
 		'Error voltage': item.errorVoltageV,
 		Capacitance: item.capacitanceF,
+		'Current noise worst sample': item.noiseA_rtHz.worst,
 		'Catalogue id': item.id
 	};
 }

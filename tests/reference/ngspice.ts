@@ -5,10 +5,11 @@
  * Facts about ngspice 39 this helper relies on:
  *  - batch mode exits non-zero unless the control block ends with `quit 0`;
  *  - `set numdgt=17` makes `print` write doubles with enough digits to compare at 1e-9;
- *  - `.option gmin=0` removes the 1e-12 S conductance it otherwise adds across junctions.
+ *  - `.option gmin=0` removes the 1e-12 S conductance it otherwise adds across junctions;
+ *  - `wrdata` with `set wr_singlescale` writes a sweep as two columns, swept value and expression.
  */
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
@@ -27,28 +28,26 @@ export interface NgspiceRun {
 export type NgspiceValues = Map<string, number>;
 
 /**
- * Write a deck to a temporary folder, run `ngspice -b -n deck.cir`, and parse
- * the `name = value` lines it prints. Throws with ngspice's output on failure
- * or when a requested expression is missing.
+ * Write a deck (title, netlist, options, a control block ending in `quit 0`) to a temporary
+ * folder, run `ngspice -b -n deck.cir` there, and hand its printed output and the folder to
+ * `read` before the folder is removed. Throws with ngspice's output on failure.
  */
-export function runNgspiceOp(run: NgspiceRun): NgspiceValues {
+function runDeck<T>(netlist: string, options: string | undefined, control: string[], read: (out: string, dir: string) => T): T {
 	const dir = mkdtempSync(join(tmpdir(), 'junction-ngspice-'));
 	try {
 		const deck = [
 			'* junction engine reference deck',
-			run.netlist,
-			`.option ${run.options ?? 'gmin=0 reltol=1e-8'}`,
+			netlist,
+			`.option ${options ?? 'gmin=0 reltol=1e-8'}`,
 			'.control',
 			'set numdgt=17',
-			'op',
-			...run.prints.map((p) => `print ${p}`),
+			...control,
 			'quit 0',
 			'.endc',
 			'.end',
 			''
 		].join('\n');
-		const file = join(dir, 'deck.cir');
-		writeFileSync(file, deck);
+		writeFileSync(join(dir, 'deck.cir'), deck);
 		let out: string;
 		try {
 			out = execFileSync(NGSPICE, ['-b', '-n', 'deck.cir'], {
@@ -61,6 +60,18 @@ export function runNgspiceOp(run: NgspiceRun): NgspiceValues {
 			const err = e as { stdout?: string; stderr?: string; message: string };
 			throw new Error(`ngspice failed: ${err.message}\n${err.stdout ?? ''}\n${err.stderr ?? ''}`);
 		}
+		return read(out, dir);
+	} finally {
+		rmSync(dir, { recursive: true, force: true });
+	}
+}
+
+/**
+ * Run the operating point of a deck and parse the `name = value` lines it prints.
+ * Throws with ngspice's output on failure or when a requested expression is missing.
+ */
+export function runNgspiceOp(run: NgspiceRun): NgspiceValues {
+	return runDeck(run.netlist, run.options, ['op', ...run.prints.map((p) => `print ${p}`)], (out) => {
 		const values: NgspiceValues = new Map();
 		for (const line of out.split('\n')) {
 			const m = /^\s*(\S+)\s+=\s+([-+0-9.eE]+)\s*$/.exec(line);
@@ -70,9 +81,42 @@ export function runNgspiceOp(run: NgspiceRun): NgspiceValues {
 			if (!values.has(p.toLowerCase())) throw new Error(`ngspice did not print ${p}\n${out.slice(0, 4000)}`);
 		}
 		return values;
-	} finally {
-		rmSync(dir, { recursive: true, force: true });
-	}
+	});
+}
+
+export interface NgspiceDcSweep {
+	/** Netlist lines as for `runNgspiceOp`. */
+	netlist: string;
+	/** The independent source swept, e.g. `vsig`. */
+	source: string;
+	start: number;
+	stop: number;
+	step: number;
+	/** One expression recorded at each sweep point, e.g. `i(vsig)`. */
+	expression: string;
+	options?: string;
+}
+
+/**
+ * A DC sweep (`dc source start stop step`) with one expression written by `wrdata` at full
+ * precision; returns the sweep points as { x: swept value, y: expression }.
+ */
+export function runNgspiceDc(run: NgspiceDcSweep): { x: number; y: number }[] {
+	const control = ['set wr_singlescale', `dc ${run.source} ${run.start} ${run.stop} ${run.step}`, `wrdata sweep.txt ${run.expression}`];
+	return runDeck(run.netlist, run.options, control, (out, dir) => {
+		let text: string;
+		try {
+			text = readFileSync(join(dir, 'sweep.txt'), 'utf8');
+		} catch {
+			throw new Error(`ngspice wrote no sweep\n${out.slice(0, 4000)}`);
+		}
+		const rows = text
+			.split('\n')
+			.map((l) => l.trim().split(/\s+/).map(Number))
+			.filter((r) => r.length === 2 && r.every(Number.isFinite));
+		if (rows.length === 0) throw new Error(`ngspice's sweep is empty\n${text.slice(0, 2000)}`);
+		return rows.map(([x, y]) => ({ x, y }));
+	});
 }
 
 /** True when the ngspice binary is present (tests assume it; this gives a clear failure message). */

@@ -22,26 +22,24 @@ import {
 } from './rank-flags';
 import { CatalogueCaches, medianOfPrefix } from './catalogue-caches';
 import { BoundsOnDemand } from './bounds-on-demand';
-import { orderGroups } from './rank-order';
-import type { PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
+import {
+	GROUP_FAILS_LIMIT as FAILS_LIMIT,
+	GROUP_GIVEN as GIVEN,
+	GROUP_NO_VALUE as NO_VALUE,
+	GROUP_UNLISTED as UNLISTED,
+	orderGroups,
+	RANK_GROUPS as GROUPS
+} from './rank-order';
+import type { CatalogueView, PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
 import { toleranceFactor } from './tolerance';
+import { CatalogueNoise } from './catalogue-noise';
 
-/**
- * Rank groups, in list order: bit 2 = fails a stated limit, bit 1 = given model only,
- * bit 0 = no value on the ranking's basis (e.g. one sample under `bound`).
- */
-const GROUPS = 8;
-const FAILS_LIMIT = 4;
-const GIVEN = 2;
-const NO_VALUE = 1;
-/** Bucket of a part that is not listed (filtered out or excluded by its reverse rating). */
-const UNLISTED = 255;
 /** Where `counts` keeps the number of parts excluded by their reverse rating. */
 const EXCLUDED = GROUPS;
 const BASIS_INDEX: Record<RankBasis, number> = { bound: 0, worst: 1, typical: 2 };
 
-/** Result columns per part, in the one buffer: typical, worst, bound, drops ×3, capacitance. */
-const COLUMNS = 7;
+/** Result columns per part, in the one buffer: typical, worst, bound, drops ×3, capacitance, noise ×3. */
+const COLUMNS = 10;
 
 /**
  * In-memory catalogue built from plain records. Build once at start-up, then call
@@ -78,6 +76,7 @@ export class CatalogueTable {
 	private scratchKeys = new Float64Array(0);
 	private bounds!: BoundsOnDemand;
 	private caches!: CatalogueCaches;
+	private noise!: CatalogueNoise;
 	private factorCache = new Map<string, Float64Array>();
 
 	constructor(records: readonly PartRecord[] = []) {
@@ -151,9 +150,27 @@ export class CatalogueTable {
 		this.scratchKeys = new Float64Array(n);
 		this.bounds = new BoundsOnDemand(start, count, maxSamples);
 		this.caches = new CatalogueCaches(this.models, start, count, this.temps, tempOffsets, maxSamples);
+		this.noise = new CatalogueNoise(this.models, start, count, given, maxSamples);
 		this.factorCache = new Map();
 		this.resultColumns = new Float64Array(0);
 		this.resultFlags = new Uint32Array(0);
+	}
+
+	/** The table's columns for other evaluations over the same catalogue (the protected node's ranking). */
+	view(): CatalogueView {
+		return {
+			records: this.parts,
+			models: this.models,
+			start: this.start,
+			count: this.count,
+			given: this.given,
+			staticFlags: this.staticFlags,
+			minMeasuredA: this.minMeasured,
+			ratedReverseV: this.ratedReverse,
+			ratedForwardA: this.ratedForward,
+			farAt: (tC) => this.caches.farAt(tC),
+			factorsFor: (coverage, confidence) => this.factorsFor(coverage, confidence)
+		};
 	}
 
 	/** The record behind a part index. */
@@ -198,14 +215,25 @@ export class CatalogueTable {
 		}
 		const columns = options.reuse ? this.resultColumns : new Float64Array(COLUMNS * n);
 		const column = (i: number) => columns.subarray(i * n, (i + 1) * n);
-		const [typicalA, worstA, boundA, dropHotV, dropColdV, dropWorstV, capacitanceF] = Array.from({ length: COLUMNS }, (_, i) => column(i));
-		// NaN = not computed: forward drops without a clamp current, capacitance without a limit.
+		const [typicalA, worstA, boundA, dropHotV, dropColdV, dropWorstV, capacitanceF, noiseTypical, noiseWorst, noiseBound] = Array.from(
+			{ length: COLUMNS },
+			(_, i) => column(i)
+		);
+		// NaN = not computed: forward drops without a clamp current, capacitance and noise without a limit.
 		if (op.clampCurrentA === undefined) columns.fill(NaN, 3 * n, 6 * n);
 		columns.fill(NaN, 6 * n);
 		const flags = options.reuse ? this.resultFlags : new Uint32Array(n);
 		// Forward drops do not depend on the bias: kept per clamp current and temperature ends.
 		if (op.clampCurrentA !== undefined) columns.set(this.caches.dropsAt(op.clampCurrentA, cold, hot, constants), 3 * n);
 		this.partLoop(op, cold, hot, hotI, include, constants, BASIS_INDEX[basis], factors, typicalA, worstA, boundA, dropWorstV, capacitanceF, flags);
+		if (op.maxNoiseA_rtHz !== undefined)
+			this.noise.limitPass(
+				{ limit: op.maxNoiseA_rtHz, biasV: op.biasV, hot, currents: hotI, include, constants, basis, factors },
+				[noiseTypical, noiseWorst, noiseBound],
+				flags,
+				this.bucket,
+				this.counts
+			);
 		const counts = this.counts;
 		const excluded = counts[EXCLUDED] > 0 ? overRating(flags, include, counts[EXCLUDED]) : new Int32Array(0);
 		// Bounds are computed where the order needs them (bounds-on-demand.ts), then for every listed part.
@@ -241,6 +269,9 @@ export class CatalogueTable {
 			dropWorstV,
 			flags,
 			capacitanceF,
+			noiseTypical,
+			noiseWorst,
+			noiseBound,
 			hotC: hot,
 			coldC: cold
 		};
@@ -412,6 +443,7 @@ export class CatalogueTable {
 				evidence: this.given[p] === 1 ? 'given' : 'measured',
 				leakageA: { typical: result.typicalA[p], worst: result.worstA[p], bound: hasBound ? bound : null },
 				bound: hasBound ? { n: c, k: result.factorByCount[c], coverage: result.coverage, confidence: result.confidence } : null,
+				noiseA_rtHz: this.noise.row(result, p, op.biasV, constants),
 				flags: flagsFromBits(result.flags[p]),
 				meetsLimits: (result.flags[p] & LIMIT_BITS) === 0
 			};

@@ -11,6 +11,7 @@ export {
 	parseCapacitance,
 	parseFrequency,
 	parseTemperature,
+	parseNoiseDensity,
 	formatSI,
 	formatBias,
 	formatTemperature,
@@ -80,3 +81,20 @@ export type {
 	BoundTerms,
 	Evidence
 } from './rank';
+export { NODE, GUARD, RAIL_NAME, MAX_RAILS, MAX_POSITIONS, NodeError, networkIssues, checkNetwork, terminalVoltage, biasAt, biasRange, leavingSign, farTerminal } from './node';
+export type { NodeNetwork, Placement, NodePosition, NodeIssue, Terminal } from './node';
+export { NodeCircuit, DEFAULT_GRID_POINTS, MIN_GRID_POINTS, MAX_GRID_POINTS } from './node-evaluate';
+export type { NodeEvaluation, NodePoint, NodeExtreme, NodeWorst, NoiseExtreme, PositionAtWorst } from './node-evaluate';
+export { faultExcursion, UNCLAMPED_BEYOND_V } from './fault';
+export type { FaultExcursion } from './fault';
+export { noisePower, noiseDensity, noiseIsApproximate, NOISE_APPROXIMATION_NOTE } from './noise';
+export { evenGrid, refineMaximum } from './maximize';
+export { NODE_PRESETS, NODE_PRESET_KEYS } from './node-presets';
+export type { NodePreset, NodePresetKey } from './node-presets';
+export { summarizeNode } from './node-summary';
+export type { NodeSummary, NodeSummaryOptions, FaultAtEnds } from './node-summary';
+export { nodeFlags, NODE_FLAG_CODES, NODE_FLAG_WORDS, NODE_LIMIT_FLAGS, CONDUCTING_NVT, ERROR_SHIFT_FRACTION } from './node-limits';
+export type { NodeLimits, NodeFlagCode, NodeFigures } from './node-limits';
+export { rankNode, nodeRankRows, candidateCircuit, NODE_RANK_BY, RANK_GRID_POINTS } from './node-rank';
+export type { NodeRankRequest, NodeRankResult, NodeRankedPart, NodeRankBy, RankPosition } from './node-rank';
+export type { Judged } from './node-summary';

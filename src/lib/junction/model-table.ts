@@ -210,6 +210,37 @@ export class ModelTable {
 	}
 
 	/**
+	 * Current-noise power density [A²/Hz] of every model at terminal bias V [V] and temperature
+	 * [°C], from the currents `currents` gives at that bias and temperature:
+	 *   2q·(IS(T)·expm1(V_j/(N·Vt)) + 2·IS(T)) + 4k·T/RSH(T),  V_j = V − I·RS
+	 * (noise.ts: ideal-junction shot noise after van der Ziel, and the shunt's Nyquist noise).
+	 * @throws RangeError for a short input or output array.
+	 */
+	noisePowers(biasV: number, temperatureC: number, currentsA: Float64Array, out: Float64Array, constants: PhysicalConstants = SI_2019): Float64Array {
+		if (currentsA.length < this.length || out.length < this.length) throw new RangeError('arrays are shorter than the table');
+		const cols = this.scaled(temperatureC, constants);
+		for (let j = 0; j < this.length; j++) out[j] = this.noiseOf(cols, j, biasV, currentsA[j], constants);
+		return out;
+	}
+
+	/**
+	 * Current-noise power density [A²/Hz] of model j at terminal bias V [V] and temperature [°C]
+	 * carrying the current `currentA` it carries there (as `noisePowers`, for one model).
+	 */
+	noisePowerAt(j: number, biasV: number, currentA: number, temperatureC: number, constants: PhysicalConstants = SI_2019): number {
+		return this.noiseOf(this.scaled(temperatureC, constants), j, biasV, currentA, constants);
+	}
+
+	private noiseOf(cols: ScaledColumns, j: number, biasV: number, currentA: number, constants: PhysicalConstants): number {
+		const is = cols.IS[j];
+		const vd = biasV - currentA * this.RS[j];
+		const shot = is * Math.expm1(vd / (this.N[j] * cols.vt)) + 2 * is;
+		// 4kT with T = q·Vt/k.
+		const s = 2 * constants.q * (shot > 0 ? shot : 0) + 4 * constants.q * cols.vt * cols.GSH[j];
+		return s > Number.MAX_VALUE ? Number.MAX_VALUE : s;
+	}
+
+	/**
 	 * Terminal voltage [V] of every model at a forward current [A] and temperature [°C]:
 	 * V = N·Vt·ln(1 + I/IS(T)) + I·RS, with the exact shunt correction of
 	 * `shuntCorrectedVoltage` when there is a shunt, and the general solver for models

@@ -29,6 +29,8 @@ export interface OperatingPoint {
 	maxLeakageA?: number;
 	/** Flag parts whose capacitance at the bias (median sample, mid temperature) exceeds this [F]. */
 	maxCapacitanceF?: number;
+	/** Flag parts whose current-noise density at the bias and hot end, on the basis, exceeds this [A/√Hz]. */
+	maxNoiseA_rtHz?: number;
 	/** Margin kept below the rated reverse voltage [V] (default 0). */
 	reverseMarginV?: number;
 	/** Keep parts biased beyond their reverse rating (flagged) instead of excluding them. */

@@ -21,6 +21,7 @@ export const FLAG_CODES = [
 	'over-capacitance-limit',
 	'band-gap-assumed',
 	'over-forward-rating',
+	'over-noise-limit',
 	// Set by the catalogue, which knows where a part's CJO, VJ and M came from; the table does not.
 	'capacitance-from-card'
 ] as const;
@@ -105,6 +106,11 @@ export const FLAG_WORDS: Record<FlagCode, { short: string; long: string; caution
 		short: 'capacitance from card',
 		long: 'Capacitance from a datasheet card: no C–V sweep of this part was measured, so CJO, VJ and M are the card’s.',
 		caution: false
+	},
+	'over-noise-limit': {
+		short: 'noise over limit',
+		long: 'The current noise (of the junction at its bias, or at the protected node) exceeds the density you allowed, judged on the same basis as the leakage.',
+		caution: true
 	}
 };
 
@@ -136,13 +142,19 @@ export const BIT_OVER_REVERSE_RATING = flagBit('over-reverse-rating');
 export const BIT_OVER_FORWARD_RATING = flagBit('over-forward-rating');
 export const BIT_OVER_LEAKAGE_TARGET = flagBit('over-leakage-target');
 export const BIT_OVER_CAPACITANCE_LIMIT = flagBit('over-capacitance-limit');
+export const BIT_OVER_NOISE_LIMIT = flagBit('over-noise-limit');
 
 /**
  * Flags that mean a stated limit is not met (the part ranks after those meeting every
- * limit): forward drop, leakage budget, capacitance, and both ratings.
+ * limit): forward drop, leakage budget, capacitance, current noise, and both ratings.
  */
 export const LIMIT_BITS =
-	BIT_FORWARD_DROP_OVER_LIMIT | BIT_OVER_LEAKAGE_TARGET | BIT_OVER_CAPACITANCE_LIMIT | BIT_OVER_REVERSE_RATING | BIT_OVER_FORWARD_RATING;
+	BIT_FORWARD_DROP_OVER_LIMIT |
+	BIT_OVER_LEAKAGE_TARGET |
+	BIT_OVER_CAPACITANCE_LIMIT |
+	BIT_OVER_NOISE_LIMIT |
+	BIT_OVER_REVERSE_RATING |
+	BIT_OVER_FORWARD_RATING;
 
 /** Flags that hold for a part whatever the operating point. */
 export function staticFlagsOf(p: PartRecord): number {

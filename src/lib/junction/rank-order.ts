@@ -4,6 +4,23 @@
  * Pure functions over typed arrays; the catalogue table calls them once per group of parts.
  */
 
+/**
+ * Rank groups, in list order (rank.ts): bit 2 = fails a stated limit, bit 1 = given model
+ * only, bit 0 = no value on the ranking's basis (e.g. one sample under `bound`). The
+ * catalogue table and the protected node's ranking both sort parts into them.
+ */
+export const RANK_GROUPS = 8;
+export const GROUP_FAILS_LIMIT = 4;
+export const GROUP_GIVEN = 2;
+export const GROUP_NO_VALUE = 1;
+/** Bucket of a part that is not listed (filtered out or excluded by its reverse rating). */
+export const GROUP_UNLISTED = 255;
+
+/** The rank group of a listed part. */
+export function rankGroup(failsLimit: boolean, given: boolean, hasValue: boolean): number {
+	return (failsLimit ? GROUP_FAILS_LIMIT : 0) | (given ? GROUP_GIVEN : 0) | (hasValue ? 0 : GROUP_NO_VALUE);
+}
+
 const LOW_WORD = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 0 : 1;
 
 /** Numeric order with NaN after every number (the sort key order of `orderByKey`). */

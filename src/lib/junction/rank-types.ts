@@ -6,6 +6,7 @@ import type { JunctionModel } from './model';
 import type { JunctionKind } from './names';
 import type { FlagCode } from './rank-flags';
 import type { RankBasis } from './operating-point';
+import type { ModelTable } from './model-table';
 
 /** Where a part's model comes from: fitted to our bench sweeps, or given (card, datasheet) and never measured. */
 export type Evidence = 'measured' | 'given';
@@ -56,6 +57,11 @@ export interface RankedPart {
 	sampleLeakageA?: number[];
 	forwardDropV?: { hot: number; cold: number; worst: number };
 	capacitanceF?: number;
+	/**
+	 * Current-noise density at the bias and hot end [A/√Hz] (noise.ts): median sample, noisiest
+	 * sample, and the statistical bound over the samples' noise powers (null as for leakage).
+	 */
+	noiseA_rtHz: { typical: number; worst: number; bound: number | null };
 	flags: FlagCode[];
 	/** The part meets every limit the operating point states (see rank.ts). */
 	meetsLimits: boolean;
@@ -113,6 +119,34 @@ export interface RankResult {
 	flags: Uint32Array;
 	/** Median capacitance at the bias [F], computed for every part only when a capacitance limit is given (else NaN). */
 	capacitanceF: Float64Array;
+	/** Current-noise density [A/√Hz] (typical, noisiest sample, bound), computed for every part only when a noise limit is given (else NaN). */
+	noiseTypical: Float64Array;
+	noiseWorst: Float64Array;
+	noiseBound: Float64Array;
 	hotC: number;
 	coldC: number;
+}
+
+/**
+ * A catalogue table's columns, read-only, for evaluations over the same catalogue that are
+ * not a single-junction ranking (the protected node's): part p's sample models are
+ * models[start[p] … start[p] + count[p] − 1].
+ */
+export interface CatalogueView {
+	records: readonly PartRecord[];
+	models: ModelTable;
+	start: Int32Array;
+	count: Int32Array;
+	/** 1 for a part with only a given model. */
+	given: Uint8Array;
+	/** Flag bits that hold whatever the operating point (rank-flags.ts). */
+	staticFlags: Uint32Array;
+	minMeasuredA: Float64Array;
+	/** Ratings (Infinity when unrated) [V], [A]. */
+	ratedReverseV: Float64Array;
+	ratedForwardA: Float64Array;
+	/** 1 per part when a temperature [°C] lies more than the extrapolation distance from every measured one. */
+	farAt(temperatureC: number): Uint8Array;
+	/** Tolerance factor by sample count (NaN below two samples). */
+	factorsFor(coverage: number, confidence: number): Float64Array;
 }

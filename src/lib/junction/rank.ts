@@ -6,6 +6,7 @@
  *  - rank-flags.ts       the flag vocabulary (codes, words, bits, which flags are limits);
  *  - catalogue-table.ts  the in-memory table: evaluation, per-part statistics, flags, groups;
  *  - bounds-on-demand.ts statistical bounds computed only where the order or the list needs them;
+ *  - catalogue-noise.ts  the current-noise figures and the noise limit;
  *  - rank-order.ts       ordering and selection of part indices by key columns;
  *  - tolerance.ts        the noncentral-t tolerance factor and the log-normal bound;
  *  - rank-types.ts       records in, columns and rows out.
@@ -22,14 +23,18 @@
  *    worst = largest over samples and both ends. The cold end is usually higher (the
  *    junction voltage falls with temperature), but a model with a large N and little
  *    temperature dependence of IS (wide-gap, N ≈ 2) can have the hot end higher;
- *  - capacitance at the bias (median over samples at the mid temperature) when CJO is known.
+ *  - capacitance at the bias (median over samples at the mid temperature) when CJO is known;
+ *  - current noise at the bias and hot end (noise.ts; catalogue-noise.ts): each sample's
+ *    density, typical = median, worst = noisiest, bound = the same tolerance bound over the
+ *    samples' noise powers.
  * Basis: the designer chooses what leakage the list is judged on: the bound (default), the
  * worst sample or typical.
  * Limits: an operating point may state a forward-drop limit (maxForwardDropV), a leakage
  * budget (maxLeakageA, held against the leakage on the basis, or against the worst sample
  * for a part without a value on the basis) and a capacitance limit (maxCapacitanceF); a
  * clamp current above the part's rated forward current and a reverse bias beyond its
- * rating (less the margin) are limits too. A part failing one raises its flag. Parts
+ * rating (less the margin) are limits too, and so is a noise limit (maxNoiseA_rtHz, held
+ * against the noise on the basis like the leakage budget). A part failing one raises its flag. Parts
  * beyond their reverse rating are left out unless includeOverRating. A part whose
  * capacitance is unknown (no CJO) is not held against the capacitance limit.
  * Order (ignorance never ranks first):
@@ -65,5 +70,5 @@ export {
 	type RankBasis
 } from './operating-point';
 export { logNormalUpperBound, noncentralTCdf, noncentralTQuantile, toleranceFactor } from './tolerance';
-export type { BoundTerms, Evidence, PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
+export type { BoundTerms, CatalogueView, Evidence, PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
 export type { JunctionKind } from './names';

@@ -148,3 +148,14 @@ describe('formatting', () => {
 		}
 	});
 });
+
+describe('parseNoiseDensity', () => {
+	it('reads a current per root hertz, with or without the suffix', async () => {
+		const { parseNoiseDensity } = await import('./units');
+		expect(parseNoiseDensity('10 fA/√Hz')).toBeCloseTo(1e-14, 28);
+		expect(parseNoiseDensity('10f')).toBeCloseTo(1e-14, 28);
+		expect(parseNoiseDensity('3e-15 A/rtHz')).toBe(3e-15);
+		expect(parseNoiseDensity('2 pA / sqrt(Hz)')).toBeCloseTo(2e-12, 26);
+		expect(() => parseNoiseDensity('loud')).toThrow(/noise density/);
+	});
+});

@@ -130,6 +130,20 @@ export function parseFrequency(text: string): number {
 	return parseQuantity(text, 'frequency');
 }
 
+/**
+ * Parse a current-noise density in A/√Hz (`10 fA/√Hz`, `10f`, `3e-15 A/rtHz`): a current
+ * with an optional per-root-hertz suffix (`/√Hz`, `/rtHz`, `/sqrt(Hz)`).
+ * @throws Error with an explanatory message.
+ */
+export function parseNoiseDensity(text: string): number {
+	const bare = typeof text === 'string' ? text.replace(/\s*\/\s*(√\(?\s*hz\s*\)?|rt\s*hz|sqrt\s*\(\s*hz\s*\))\s*$/i, '') : text;
+	try {
+		return parseCurrent(bare);
+	} catch {
+		throw new Error(`expected a noise density such as 10 fA/√Hz or 1e-14, got '${text}'`);
+	}
+}
+
 export interface ParsedTemperature {
 	/** Temperature in degrees Celsius. */
 	celsius: number;

@@ -5,6 +5,7 @@
  */
 import { formatSI } from '$lib/junction/units';
 import type { RankItem } from '$lib/schemas/rank';
+import { flagText, nodeHasLimits, type NodeEntryPrediction, type NodeRequirement } from '$lib/schemas/node';
 
 /** A ranking item for one part, with the model version the numbers came from. */
 export type Prediction = Omit<RankItem, 'rank'> & { modelVersion: number };
@@ -17,6 +18,8 @@ export type Limits = {
 	allowedErrorV?: number;
 	sourceResistanceOhm?: number;
 	maxForwardDropV?: number;
+	/** A protected node the shortlist is judged in (candidate positions take each listed part). */
+	node?: NodeRequirement;
 };
 
 export type Verdict = {
@@ -24,6 +27,8 @@ export type Verdict = {
 	leakage: { status: 'pass' | 'fail' | 'none'; worstA: number; targetA?: number; ratio?: number };
 	/** pass / fail against the drop limit (worst of cold and hot), or none. */
 	drop: { status: 'pass' | 'fail' | 'none'; worstV?: number; limitV?: number; marginV?: number };
+	/** pass / fail in the requirement's protected node (its limits, the fault clamped), when it has one. */
+	node?: { status: 'pass' | 'fail' | 'none'; flags: string[] };
 	overall: 'pass' | 'fail' | 'unknown';
 };
 
@@ -37,6 +42,8 @@ export type Entry = {
 	addedBy: PersonRef | null;
 	addedAt: Date;
 	prediction: Prediction | null;
+	/** The part in the requirement's protected node, when there is one. */
+	node: NodeEntryPrediction | null;
 	verdict: Verdict | null;
 };
 
@@ -51,8 +58,8 @@ export function leakageBudget(r: Limits): number | null {
 	return null;
 }
 
-/** Compares one prediction with the requirement's limits. */
-export function verdict(p: Prediction, r: Limits): Verdict {
+/** Compares one prediction (and the part's figures in the requirement's node) with the requirement's limits. */
+export function verdict(p: Prediction, r: Limits, node?: NodeEntryPrediction | null): Verdict {
 	const budget = leakageBudget(r);
 	const leakage: Verdict['leakage'] =
 		budget !== null
@@ -68,9 +75,17 @@ export function verdict(p: Prediction, r: Limits): Verdict {
 	} else if (r.maxForwardDropV !== undefined) {
 		drop = { status: 'none', limitV: r.maxForwardDropV };
 	}
-	const statuses = [leakage.status, drop.status];
+	const inNode = r.node ? nodeVerdict(r.node, node ?? null) : undefined;
+	const statuses = [leakage.status, drop.status, ...(inNode ? [inNode.status] : [])];
 	const overall = statuses.includes('fail') ? 'fail' : statuses.includes('pass') ? 'pass' : 'unknown';
-	return { leakage, drop, overall };
+	return { leakage, drop, ...(inNode ? { node: inNode } : {}), overall };
+}
+
+/** A part in the node: it fails when it misses a node limit or cannot be evaluated there. */
+function nodeVerdict(n: NodeRequirement, p: NodeEntryPrediction | null): NonNullable<Verdict['node']> {
+	if (!p) return { status: 'fail', flags: [] };
+	if (!p.meetsLimits) return { status: 'fail', flags: p.flags };
+	return { status: nodeHasLimits(n) ? 'pass' : 'none', flags: p.flags };
 }
 
 const LARGE = new Intl.NumberFormat('en-GB', { maximumSignificantDigits: 3 });
@@ -102,6 +117,9 @@ export function shortfalls(entries: Pick<Entry, 'partId' | 'partNumber' | 'predi
 		const d = e.verdict.drop;
 		if (d.status === 'fail' && d.worstV !== undefined && d.limitV !== undefined)
 			reasons.push(`forward drop ${formatSI(d.worstV, 'V')} is over the ${formatSI(d.limitV, 'V')} limit`);
+		const n = e.verdict.node;
+		if (n?.status === 'fail')
+			reasons.push(n.flags.length ? `in the protected node: ${n.flags.map((f) => flagText(f).short).join(', ')}` : 'cannot be evaluated in the protected node');
 		if (reasons.length) out.push({ partId: e.partId, partNumber: e.partNumber, reasons });
 	}
 	return out;

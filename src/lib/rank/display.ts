@@ -23,6 +23,8 @@ export function displayValue(field: FieldName, value: number): string | null {
 			return formatSI(value, 'Ω');
 		case 'maxCap':
 			return formatSI(value, 'F');
+		case 'maxNoise':
+			return noise(value);
 		case 'coverage':
 		case 'confidence':
 			return percent(value);
@@ -61,6 +63,7 @@ export function tidyFields(f: OpFields): OpFields {
 	show('allowedError', op.allowedErrorV);
 	show('leakage', op.leakageTargetA);
 	show('maxCap', op.maxCapacitanceF);
+	show('maxNoise', op.maxNoiseA_rtHz);
 	show('coverage', op.coverage);
 	show('confidence', op.confidence);
 	return out;
@@ -70,6 +73,11 @@ export function volts(v: number | null | undefined, digits = 3): string {
 	if (v === null || v === undefined || !Number.isFinite(v)) return '—';
 	if (v !== 0 && Math.abs(v) < 1e-18) return '< 1 aV';
 	return formatSI(v, 'V', { digits });
+}
+
+/** A current-noise density with its prefix (3.2 fA/√Hz), or a dash. */
+export function noise(d: number | null | undefined): string {
+	return d === null || d === undefined || !Number.isFinite(d) ? '—' : `${formatSI(d, 'A')}/√Hz`;
 }
 
 export function farads(f: number | null | undefined): string {

@@ -7,6 +7,7 @@
  * the legend.
  */
 import type { FlagCode } from '$lib/junction/rank-flags';
+import type { NodeFlagCode } from '$lib/junction/node-limits';
 
 export const FLAG_MARKS: Record<FlagCode, string> = {
 	'current-extrapolated': 'I↓',
@@ -22,5 +23,21 @@ export const FLAG_MARKS: Record<FlagCode, string> = {
 	'over-capacitance-limit': 'C>',
 	'band-gap-assumed': 'Eg?',
 	'over-forward-rating': 'IF>',
-	'capacitance-from-card': 'C?'
+	'capacitance-from-card': 'C?',
+	'over-noise-limit': 'In>'
 };
+
+/** The protected node's own flags (the node screen, a project's node verdicts); noise shares the ranking's code. */
+export const NODE_FLAG_MARKS: Record<NodeFlagCode, string> = {
+	'over-net-current-limit': 'IN>',
+	'over-noise-limit': 'In>',
+	'excursion-over-limit': 'VX>',
+	'fault-unclamped': 'VX?',
+	'conducts-in-range': 'VF~',
+	'error-shifts-bias': 'ΔV'
+};
+
+/** The mark for any flag code, a node's or the ranking's. */
+export function flagMark(code: string): string {
+	return (NODE_FLAG_MARKS as Record<string, string>)[code] ?? (FLAG_MARKS as Record<string, string>)[code] ?? code;
+}

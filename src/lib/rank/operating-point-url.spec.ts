@@ -25,6 +25,7 @@ describe('operating point ↔ query string', () => {
 			sourceResistanceOhm: 1e10,
 			allowedErrorV: 1e-3,
 			maxCapacitanceF: 2e-12,
+			maxNoiseA_rtHz: 5e-15,
 			kinds: ['diode', 'bjt-diode'],
 			lifecycles: ['in-use'],
 			packages: ['SOD-323', 'TO-18'],
@@ -32,9 +33,15 @@ describe('operating point ↔ query string', () => {
 		};
 		const query = queryFromOperatingPoint(op);
 		expect(query.toString()).toBe(
-			'v=-5&tlo=-40&thi=85&ic=1m&vf=0.7&margin=2&rs=10G&verr=1m&cmax=2p&pkg=SOD-323%2C+TO-18&q=low+leak&over=1&kind=diode&kind=bjt-diode&life=in-use'
+			'v=-5&tlo=-40&thi=85&ic=1m&vf=0.7&margin=2&rs=10G&verr=1m&cmax=2p&nmax=5f&pkg=SOD-323%2C+TO-18&q=low+leak&over=1&kind=diode&kind=bjt-diode&life=in-use'
 		);
 		expect(operatingPointFromQuery(new URLSearchParams(query.toString()))).toEqual({ op, errors: {} });
+	});
+
+	test('a noise limit typed as a density per root hertz', () => {
+		for (const typed of ['5 fA/√Hz', '5f', '5e-15 A/rtHz'])
+			expect(Math.abs(parseFields({ ...DEFAULT_FIELDS, maxNoise: typed }).op!.maxNoiseA_rtHz! / 5e-15 - 1)).toBeLessThan(1e-12);
+		expect(parseFields({ ...DEFAULT_FIELDS, maxNoise: 'quiet' }).errors.maxNoise).toMatch(/noise density/);
 	});
 
 	test('a single temperature and a leakage target', () => {

@@ -6,11 +6,11 @@
  * Query names: v (bias), tlo/thi (temperature or range), ic (clamp current), vf (max
  * forward drop), margin (reverse-rating margin), over=1 (list parts over the rating),
  * rs (source resistance), verr (allowed error voltage), ileak (allowed leakage),
- * cmax (capacitance limit), kind (repeated), pkg (comma-separated), life (repeated), q,
+ * cmax (capacitance limit), nmax (current-noise limit, A/√Hz), kind (repeated), pkg (comma-separated), life (repeated), q,
  * basis (bound | worst | typical; left out for the default, bound), cov and conf (the
  * bound's coverage and confidence, as typed: "95 %" or "0.95").
  */
-import { parseQuantity, parseTemperature, type QuantityKind } from '$lib/junction';
+import { parseNoiseDensity, parseQuantity, parseTemperature, type QuantityKind } from '$lib/junction';
 import {
 	DEFAULT_BASIS,
 	operatingPointSchema,
@@ -35,6 +35,7 @@ export type OpFields = {
 	allowedError: string;
 	leakage: string;
 	maxCap: string;
+	maxNoise: string;
 	kinds: RankKind[];
 	packages: string;
 	lifecycles: RankLifecycle[];
@@ -60,6 +61,7 @@ export const DEFAULT_FIELDS: OpFields = {
 	allowedError: '',
 	leakage: '',
 	maxCap: '',
+	maxNoise: '',
 	kinds: [],
 	packages: '',
 	lifecycles: [],
@@ -84,6 +86,7 @@ const TEXT_PARAMS: [Exclude<FieldName, 'overRating' | 'kinds' | 'lifecycles' | '
 	['allowedError', 'verr'],
 	['leakage', 'ileak'],
 	['maxCap', 'cmax'],
+	['maxNoise', 'nmax'],
 	['packages', 'pkg'],
 	['q', 'q'],
 	['coverage', 'cov'],
@@ -197,6 +200,8 @@ export function fieldsFromOperatingPoint(op: RankOperatingPoint): OpFields {
 	f.allowedError = num(op.allowedErrorV, 'voltage');
 	f.leakage = num(op.leakageTargetA, 'current');
 	f.maxCap = num(op.maxCapacitanceF, 'capacitance');
+	// A noise density is typed as a current per root hertz; the bare current reads back the same.
+	f.maxNoise = num(op.maxNoiseA_rtHz, 'current');
 	f.kinds = [...(op.kinds ?? [])];
 	f.lifecycles = [...(op.lifecycles ?? [])];
 	f.packages = (op.packages ?? []).join(', ');
@@ -231,6 +236,7 @@ const PATH_FIELD: Record<string, FieldName> = {
 	allowedErrorV: 'allowedError',
 	leakageTargetA: 'leakage',
 	maxCapacitanceF: 'maxCap',
+	maxNoiseA_rtHz: 'maxNoise',
 	packages: 'packages',
 	q: 'q',
 	kinds: 'kinds',
@@ -343,6 +349,13 @@ export function parseFields(f: OpFields): { op: RankOperatingPoint | null; error
 	for (const [field, key, kind] of optional) {
 		const v = quantity(field, kind);
 		if (v !== undefined) op[key] = v;
+	}
+	if (f.maxNoise.trim()) {
+		try {
+			op.maxNoiseA_rtHz = parseNoiseDensity(f.maxNoise);
+		} catch (e) {
+			errors.maxNoise = (e as Error).message;
+		}
 	}
 	if (f.overRating) op.includeOverRating = true;
 	if (f.kinds.length) op.kinds = [...f.kinds];

@@ -4,6 +4,7 @@ import { optionalQuantity, quantity } from './quantity';
 import { REVIEW_ACTIONS } from '$lib/review-transitions';
 import { email } from './people';
 import { MAX_ID } from '../../params/id';
+import { nodeRequirementSchema } from './node';
 
 const finite = (what: string) => z.number({ message: `${what} must be a number.` }).refine(Number.isFinite, `${what} must be finite.`);
 const celsius = (what: string) => finite(what).min(-273.15, `${what} is below absolute zero.`).max(500, `${what} is above 500 °C.`);
@@ -22,7 +23,9 @@ export const requirementSchema = z
 		maxForwardDropV: finite('The forward-drop limit').positive('The forward-drop limit must be above zero.').max(100, 'The forward-drop limit must be at most 100 V.').optional(),
 		leakageTargetA: finite('The leakage target').positive('The leakage target must be above zero.').max(1, 'The leakage target must be at most 1 A.').optional(),
 		allowedErrorV: finite('The allowed error').positive('The allowed error must be above zero.').max(1000, 'The allowed error must be at most 1 kV.').optional(),
-		sourceResistanceOhm: finite('The source resistance').min(0, 'The source resistance cannot be negative.').optional()
+		sourceResistanceOhm: finite('The source resistance').min(0, 'The source resistance cannot be negative.').optional(),
+		/** A protected node the shortlist is judged in; candidate positions take each listed part. */
+		node: nodeRequirementSchema.optional()
 	})
 	.strict()
 	.superRefine((r, ctx) => {
@@ -92,7 +95,7 @@ export const REQUIREMENT_FIELDS = Object.keys(requirementFormSchema.shape) as Re
 export type RequirementForm = Record<RequirementField, string>;
 
 /** Where each stored value is typed on the form. */
-const FIELD_OF: Record<keyof RequirementInput, RequirementField> = {
+const FIELD_OF: Partial<Record<keyof RequirementInput, RequirementField>> = {
 	biasV: 'bias',
 	temperatureC: 'tempLo',
 	temperatureRangeC: 'tempLo',

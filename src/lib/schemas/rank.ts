@@ -68,6 +68,8 @@ export const operatingPointSchema = z
 		leakageTargetA: positive('leakageTargetA').optional(),
 		/** Largest acceptable junction capacitance at the bias [F]. */
 		maxCapacitanceF: positive('maxCapacitanceF').optional(),
+		/** Largest acceptable current-noise density at the bias and hot end, on the basis [A/√Hz]. */
+		maxNoiseA_rtHz: positive('maxNoiseA_rtHz').optional(),
 		/** What the order and the leakage budget are judged on (default "bound"). */
 		basis: z
 			.enum(RANK_BASES, { error: 'basis must be "bound" (statistical bound), "worst" (worst measured sample) or "typical"' })
@@ -194,12 +196,17 @@ export type RankItem = {
 	/** Rated reverse voltage minus the reverse bias [V] (null when unrated or forward-biased). */
 	reverseMarginV: number | null;
 	capacitanceF: number | null;
+	/**
+	 * Current-noise density at the bias and hot end [A/√Hz]: shot noise 2q·(I + 2·IS) of the
+	 * ideal junction plus the shunt's 4kT/RSH; typical, noisiest sample and bound as for leakage.
+	 */
+	noiseA_rtHz: { typical: number; worst: number; bound: number | null };
 	/** Worst leakage × source resistance [V], when a source resistance is given. */
 	errorVoltageV: number | null;
 	flags: RankFlag[];
 	/**
 	 * Whether the part meets every limit the operating point states (forward drop, leakage
-	 * budget, capacitance, reverse rating). Parts meeting them all are listed first.
+	 * budget, capacitance, current noise, reverse rating). Parts meeting them all are listed first.
 	 */
 	meetsLimits: boolean;
 	/** Typical model (SPICE names), for the first `withModels` items only. */

@@ -8,6 +8,8 @@ import { predictParts, type Prediction } from './ranking';
 import { modelCache } from './model-cache';
 import type { Requirement } from './db/schema';
 import type { RankOperatingPoint } from '$lib/schemas/rank';
+import type { NodeEntryPrediction } from '$lib/schemas/node';
+import { predictNode } from './node';
 
 export type { Prediction };
 
@@ -47,12 +49,18 @@ export function modelRecordOf(m: JunctionModel): ModelRecord {
 
 /**
  * Predictions and models from one cache snapshot: `models` holds each part's typical
- * model, `parts` also every sample's. Parts without a usable model are absent.
+ * model, `parts` also every sample's, and (when the requirement holds a node) `nodes` each
+ * part's figures in the node. Parts without a usable model are absent.
  */
 export async function predictEntries(
 	partIds: number[],
 	requirement: Requirement
-): Promise<{ predictions: Map<number, Prediction>; models: Map<number, ModelRecord>; parts: Map<number, PartModels> }> {
+): Promise<{
+	predictions: Map<number, Prediction>;
+	models: Map<number, ModelRecord>;
+	parts: Map<number, PartModels>;
+	nodes: Map<number, NodeEntryPrediction>;
+}> {
 	const cache = await modelCache();
 	const snap = cache.snapshot;
 	const models = new Map<number, ModelRecord>();
@@ -72,7 +80,8 @@ export async function predictEntries(
 	}
 	// Passing the cache reads the same snapshot synchronously.
 	const predictions = await predictParts(partIds, toOperatingPoint(requirement), cache);
-	return { predictions, models, parts };
+	const nodes = requirement.node ? predictNode(requirement.node, partIds, snap) : new Map<number, NodeEntryPrediction>();
+	return { predictions, models, parts, nodes };
 }
 
 /** The engine model behind a stored record, or null when it no longer validates. */

@@ -14,6 +14,7 @@ import { verdict, type Entry, type PersonRef, type Prediction, type Verdict } fr
 import { EDITABLE_STATES, isEditable, STATE_LABEL, isReviewState } from '$lib/review-transitions';
 import type { CreateProjectInput } from '$lib/schemas/projects';
 import { auditWords } from '$lib/audit-words';
+import type { NodeRequirement } from '$lib/schemas/node';
 
 export type { Prediction, Entry, PersonRef, Verdict };
 export { verdict };
@@ -131,13 +132,14 @@ export async function evaluate(
 	project: Project
 ): Promise<{ entries: Entry[]; models: Map<number, ModelRecord>; parts: Map<number, PartModels> }> {
 	const rows = await entryRows(project.id);
-	const { predictions, models, parts } = await predictEntries(
+	const { predictions, models, parts, nodes } = await predictEntries(
 		rows.map((r) => r.partId),
 		project.requirement
 	);
 	const refs = await personRefs(rows.map((r) => r.addedBy));
 	const list = rows.map((r) => {
 		const prediction = predictions.get(r.partId) ?? null;
+		const node = nodes.get(r.partId) ?? null;
 		return {
 			id: r.id,
 			partId: r.partId,
@@ -148,7 +150,8 @@ export async function evaluate(
 			addedBy: r.addedBy ? (refs.get(r.addedBy) ?? null) : null,
 			addedAt: r.addedAt,
 			prediction,
-			verdict: prediction ? verdict(prediction, project.requirement) : null
+			node,
+			verdict: prediction ? verdict(prediction, project.requirement, node) : null
 		};
 	});
 	return { entries: list, models, parts };
@@ -168,6 +171,34 @@ async function lockForEdit(tx: DbOrTx, projectId: number): Promise<Project> {
 	const current = await find(projectId, tx);
 	const label = isReviewState(current.state) ? STATE_LABEL[current.state].toLowerCase() : current.state;
 	throw new DomainError(409, `The shortlist cannot change while the project is ${label}.`);
+}
+
+/**
+ * Puts a protected node into the project's requirement (null takes it out), while the
+ * shortlist may change: the shortlist is then judged in it, and review snapshots keep it.
+ * Parts named in fixed positions must be in the catalogue.
+ */
+export async function setNode(projectId: number, node: NodeRequirement | null, actorId: string): Promise<Project> {
+	return db.transaction(async (tx) => {
+		const current = await lockForEdit(tx, projectId);
+		const fixed = [...new Set((node?.junctions ?? []).flatMap((j) => (j.id !== undefined ? [j.id] : [])))];
+		if (fixed.length) {
+			const found = new Set((await tx.select({ id: parts.id }).from(parts).where(inArray(parts.id, fixed))).map((r) => r.id));
+			const i = node!.junctions.findIndex((j) => j.id !== undefined && !found.has(j.id));
+			if (i >= 0) throw new DomainError(422, `There is no part ${node!.junctions[i].id} in the catalogue.`, [{ path: `junctions.${i}.id`, message: 'No such part.' }]);
+		}
+		const { node: _previous, ...rest } = current.requirement;
+		const requirement: Requirement = node ? { ...rest, node } : rest;
+		const [updated] = await tx.update(projects).set({ requirement }).where(eq(projects.id, projectId)).returning();
+		await recordAudit(tx, {
+			actorId,
+			action: node ? 'project.node-set' : 'project.node-removed',
+			entity: 'project',
+			entityId: projectId,
+			detail: node ? { node } : {}
+		});
+		return updated;
+	});
 }
 
 export async function addEntry(projectId: number, input: { junctionId: number; note: string }, actorId: string) {

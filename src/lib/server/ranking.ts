@@ -32,6 +32,7 @@ export function engineOperatingPoint(op: RankOperatingPoint): OperatingPoint {
 		...(op.maxForwardDropV !== undefined ? { maxForwardDropV: op.maxForwardDropV } : {}),
 		...(budget !== null ? { maxLeakageA: budget } : {}),
 		...(op.maxCapacitanceF !== undefined ? { maxCapacitanceF: op.maxCapacitanceF } : {}),
+		...(op.maxNoiseA_rtHz !== undefined ? { maxNoiseA_rtHz: op.maxNoiseA_rtHz } : {}),
 		reverseMarginV: op.reverseMarginV ?? 0,
 		includeOverRating: op.includeOverRating ?? false,
 		...(op.basis !== undefined ? { basis: op.basis } : {}),
@@ -62,6 +63,7 @@ function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit
 		forwardDropV: row.forwardDropV ? { cold: row.forwardDropV.cold, hot: row.forwardDropV.hot, worst: row.forwardDropV.worst } : null,
 		reverseMarginV: part.ratedReverseV === null ? null : part.ratedReverseV - Math.max(0, -op.biasV),
 		capacitanceF: row.capacitanceF ?? null,
+		noiseA_rtHz: row.noiseA_rtHz,
 		errorVoltageV: op.sourceResistanceOhm !== undefined ? row.leakageA.worst * op.sourceResistanceOhm : null,
 		// The engine's flag codes are the API's (RANK_FLAGS lists the same codes); where the
 		// capacitance came from is the catalogue's to say.
@@ -82,7 +84,7 @@ export function matchesFilters(part: CachedPart, op: RankOperatingPoint): boolea
 }
 
 /** The catalogue filters as one predicate, with the request's words and packages prepared once. */
-function filterOf(op: RankOperatingPoint): (part: CachedPart) => boolean {
+export function filterOf(op: Pick<RankOperatingPoint, 'kinds' | 'lifecycles' | 'packages' | 'q'>): (part: CachedPart) => boolean {
 	const kinds = op.kinds?.length ? new Set<string>(op.kinds) : null;
 	const lifecycles = op.lifecycles?.length ? new Set<string>(op.lifecycles) : null;
 	const packages = op.packages?.length ? new Set(op.packages.map((p) => p.toLowerCase())) : null;

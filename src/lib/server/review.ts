@@ -19,6 +19,7 @@ import type { SampleChoice } from '$lib/schemas/spice';
 import { spiceBlock, type SpiceBlock, type SpicePart } from './spice';
 import { leakageBudget, shortfalls } from '$lib/projects/shortlist';
 import type { Prediction, Verdict } from './projects';
+import type { NodeEntryPrediction } from '$lib/schemas/node';
 import { checkTransition, isReviewState, type ReviewAction, type ReviewState } from '$lib/review-transitions';
 import type { ReviewResource } from '$lib/permissions';
 import { formatSI, formatTemperature } from '$lib/junction/units';
@@ -38,6 +39,8 @@ export type SnapshotEntry = {
 	evidence?: 'measured' | 'given';
 	givenSource?: string | null;
 	prediction: Prediction | null;
+	/** The part in the requirement's protected node as it stood (absent in snapshots from before nodes). */
+	node?: NodeEntryPrediction | null;
 	verdict: Verdict | null;
 };
 export type Snapshot = { requirement: Requirement; entries: SnapshotEntry[] };
@@ -86,6 +89,7 @@ async function snapshotOf(project: projectsDomain.Project): Promise<Snapshot> {
 			evidence: parts.get(e.partId)?.evidence ?? 'measured',
 			givenSource: parts.get(e.partId)?.givenSource ?? null,
 			prediction: e.prediction,
+			node: e.node,
 			verdict: e.verdict
 		}))
 	};
@@ -167,6 +171,7 @@ export function describeRequirement(r: Requirement): string {
 	else if (r.sourceResistanceOhm) bits.push(`source resistance ${formatSI(r.sourceResistanceOhm, 'Ω')}`);
 	if (r.clampCurrentA !== undefined) bits.push(`clamp ${formatSI(r.clampCurrentA, 'A')}`);
 	if (r.maxForwardDropV !== undefined) bits.push(`drop limit ${formatSI(r.maxForwardDropV, 'V')}`);
+	if (r.node) bits.push(`in a protected node of ${r.node.junctions.length} junction${r.node.junctions.length === 1 ? '' : 's'} over ${formatSI(r.node.signalRangeV[0], 'V')} to ${formatSI(r.node.signalRangeV[1], 'V')}`);
 	return bits.join(', ');
 }
 
@@ -174,7 +179,8 @@ function entryLine(e: SnapshotEntry): string {
 	const name = `${e.partNumber} (${e.maker})`;
 	if (!e.prediction || !e.verdict) return `${name}: no prediction, as no usable model was on record`;
 	const v = e.verdict;
-	const figures = `worst leakage ${formatSI(e.prediction.leakageA.worst, 'A')}${v.drop.worstV !== undefined ? `, worst drop ${formatSI(v.drop.worstV, 'V')}` : ''}`;
+	const inNode = e.node ? `, worst net node current ${formatSI(Math.abs(e.node.netCurrentA.worst), 'A')}` : '';
+	const figures = `worst leakage ${formatSI(e.prediction.leakageA.worst, 'A')}${v.drop.worstV !== undefined ? `, worst drop ${formatSI(v.drop.worstV, 'V')}` : ''}${inNode}`;
 	if (v.overall === 'fail') return `${name}: ${figures}; misses: ${shortfalls([e])[0]?.reasons.join('; ') ?? 'a limit'}`;
 	return `${name}: ${figures}${v.overall === 'pass' ? '; meets the requirement' : ''}`;
 }

@@ -1,5 +1,5 @@
 import { formatTemperature } from '$lib/junction/units';
-import { FLAG_WORDS, type RankFlag } from '$lib/schemas/rank';
+import { flagText } from '$lib/schemas/node';
 
 /** Amps, volts, ohms with SI prefixes; a dash when absent (the catalogue's one formatter). */
 export { si } from '$lib/catalogue/format';
@@ -9,8 +9,8 @@ export function temperatures(r: { temperatureC?: number; temperatureRangeC?: [nu
 	return r.temperatureC === undefined ? '—' : formatTemperature(r.temperatureC);
 }
 
-/** A flag in words: short label and the full explanation. */
+/** A flag in words (the catalogue's or a protected node's): short label and the full explanation. */
 export function flagWords(code: string): { short: string; long: string } {
-	const w = FLAG_WORDS[code as RankFlag];
-	return w ? { short: w.short, long: w.long } : { short: code, long: code };
+	const w = flagText(code);
+	return { short: w.short, long: w.long };
 }

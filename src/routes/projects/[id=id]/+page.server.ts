@@ -13,6 +13,7 @@ import { availableActions, isEditable } from '$lib/review-transitions';
 import { queryFromOperatingPoint } from '$lib/rank/operating-point-url';
 import { toOperatingPoint } from '$lib/server/project-predictions';
 import { shortfalls } from '$lib/projects/shortlist';
+import { nodeScreenHref } from '$lib/server/node';
 import type { RequestEvent } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -60,7 +61,8 @@ export const load: PageServerLoad = async (event) => {
 		canPeople,
 		leads,
 		shortfalls: shortfalls(entries),
-		rankHref: rankLink(project.requirement)
+		rankHref: rankLink(project.requirement),
+		nodeHref: project.requirement.node ? await nodeScreenHref(project.requirement.node) : null
 	};
 };
 

@@ -13,6 +13,7 @@ import {
 import { users } from './auth';
 import { parts } from './catalogue';
 import { timestamps } from './columns';
+import type { NodeRequirement } from '../../../schemas/node';
 
 /** A saved operating point (API units: volts, amperes, ohms, °C). */
 export type Requirement = {
@@ -25,6 +26,8 @@ export type Requirement = {
 	/** Allowed error voltage across the source resistance, instead of a leakage target. */
 	allowedErrorV?: number;
 	sourceResistanceOhm?: number;
+	/** A protected node the shortlist is judged in (every candidate position holding the part). */
+	node?: NodeRequirement;
 };
 
 export const projects = pgTable(

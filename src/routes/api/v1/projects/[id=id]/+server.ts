@@ -30,6 +30,7 @@ async function full(event: RequestEvent) {
 			addedBy: e.addedBy,
 			addedAt: e.addedAt,
 			prediction: e.prediction,
+			node: e.node,
 			verdict: e.verdict
 		})),
 		reviews: events.map((e) => ({ id: e.id, action: e.action, fromState: e.fromState, toState: e.toState, comment: e.comment, by: e.actorName, at: e.at, projectVersion: e.projectVersion })),

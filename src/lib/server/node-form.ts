@@ -26,7 +26,7 @@ export async function nodeFromFields<S extends Schema>(fields: NodeFields, schem
 			continue;
 		}
 		try {
-			junctions.push({ ...rest, id: await partByNumber(partNumber) });
+			junctions.push({ ...rest, id: (await partByNumber(partNumber)).id });
 		} catch (e) {
 			if (!(e instanceof DomainError)) throw e;
 			errors[`positions.${i}.part`] = e.issues?.[0]?.message ?? e.message;

@@ -5,7 +5,7 @@
  * Ratio = median time per keystroke / frame; target ≤ 1 ("answers within a frame").
  */
 import { buildIndex, search, type Filters } from '../../src/routes/catalogue/search';
-import type { CompactPart } from '../../src/lib/server/catalogue';
+import type { CompactPart } from '../../src/lib/catalogue/compact-part';
 import { JUNCTION_KINDS } from '../../src/lib/junction/names';
 import { mulberry32 } from '../../src/lib/random';
 import { record } from './results';

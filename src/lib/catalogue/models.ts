@@ -1,10 +1,46 @@
 // Conversions between the catalogue's stored models (SPICE names, optional keys) and the
 // engine's complete models, plus the flags every screen shows in words.
 import { createModel, currentAtBias, FLAG_WORDS, scaleModel, type JunctionModel } from '$lib/junction';
-import type { FitInterval, FitQuality, StoredModel } from '$lib/server/db/schema/catalogue';
 import type { JunctionKind, Material } from './vocabulary';
 
-export type { FitInterval, FitQuality, StoredModel };
+/** A SPICE-named model as stored (TNOM in °C). Optional keys absent when unknown. */
+export type StoredModel = {
+	IS: number;
+	N: number;
+	RS?: number;
+	RSH?: number;
+	ISR?: number;
+	NR?: number;
+	BV?: number;
+	IBV?: number;
+	EG?: number;
+	XTI?: number;
+	TNOM?: number;
+	CJO?: number;
+	VJ?: number;
+	M?: number;
+	FC?: number;
+};
+
+
+export type FitInterval = {
+	IS: [number, number];
+	N: [number, number];
+	RS: [number, number];
+	RSH?: [number, number];
+	EG?: [number, number];
+};
+
+export type FitQuality = { points: number; rejected: number; rmsResidualV: number };
+export type FitRange = {
+	currentA: [number, number];
+	voltageV: [number, number];
+	temperatureC: number;
+	/** Smallest |current| anywhere in the run [A]. */
+	minAbsCurrentA?: number;
+	/** True when the run held reverse-bias points. */
+	reverseMeasured?: boolean;
+};
 
 /**
  * The engine's material for a part. The engine uses the catalogue's material names and

@@ -64,6 +64,17 @@ export const shortlistAddSchema = z
 	})
 	.strict();
 
+/** The project screen's add form: a part number as typed (any case), and an optional note. */
+export const shortlistAddFormSchema = z.object({
+	partNumber: z.string().trim().min(1, 'Type a part number.'),
+	note: z.string().trim().max(1000, 'Keep the note under 1000 characters.')
+});
+
+/** The project screen's remove button: the part's id, from a hidden field. */
+export const shortlistRemoveFormSchema = z.object({
+	partId: z.coerce.number().int('No part named.').positive('No part named.').max(MAX_ID, 'No part named.')
+});
+
 export const shortlistRemoveSchema = z.object({ junctionId: z.number().int().positive().max(MAX_ID, 'No part has that id.') }).strict();
 
 export const reviewSchema = z

@@ -60,3 +60,8 @@ export function sampleChoiceFrom(params: URLSearchParams) {
 	const pick = (k: string) => params.get(k) ?? undefined;
 	return spiceQuerySchema.safeParse({ sample: pick('sample'), biasV: pick('biasV'), temperatureC: pick('temperatureC') });
 }
+
+/** The approved project's library: each part's typical model, or each part's leakiest sample at the requirement. */
+export const projectLibraryQuerySchema = z.object({
+	sample: z.enum(['typical', 'worst'], { message: 'sample must be typical or worst for a project library' }).default('typical')
+});

@@ -1,6 +1,6 @@
 import { isHttpError, json, type RequestEvent, type RequestHandler } from '@sveltejs/kit';
 import { z, ZodError } from 'zod';
-import { STATUS_CODE, type Issue } from './http-error';
+import { DomainError, STATUS_CODE, type Issue } from './errors';
 
 /** The API's one error shape: { error: { code, message, issues? } }. */
 export function apiError(status: number, message: string, issues?: Issue[]) {
@@ -21,17 +21,6 @@ function plainMessage(e: ZodError): string {
 	if (!first) return 'The request does not match the expected shape.';
 	const text = first.message.replace(/\.?$/, '.');
 	return rest.length ? `${text} (${rest.length} more problem${rest.length === 1 ? '' : 's'} listed in issues.)` : text;
-}
-
-/** Known failures a domain module throws; the wrapper turns them into JSON errors. */
-export class DomainError extends Error {
-	constructor(
-		public status: 400 | 403 | 404 | 409 | 413 | 422 | 503,
-		message: string,
-		public issues?: Issue[]
-	) {
-		super(message);
-	}
 }
 
 /**
@@ -91,6 +80,11 @@ export function isDatabaseDown(e: unknown, depth = 0): boolean {
 	// Drizzle wraps driver errors (cause); Node reports several failed addresses at once (errors).
 	if (isDatabaseDown(err.cause, depth + 1)) return true;
 	return Array.isArray(err.errors) && err.errors.some((x) => isDatabaseDown(x, depth + 1));
+}
+
+/** Reads the query string with a schema (each parameter once, as text); a mismatch is a 400 naming the parameter. */
+export function readQuery<T extends z.ZodType>(url: URL, schema: T): z.infer<T> {
+	return schema.parse(Object.fromEntries(url.searchParams));
 }
 
 /** JSON request bodies are small; sweeps travel as files with their own, larger limit. */

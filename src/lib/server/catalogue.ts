@@ -4,8 +4,8 @@ import { readModelCard } from '$lib/catalogue/model-card';
 import { DEFAULT_MATERIAL, type JunctionKind, type Material } from '$lib/catalogue/vocabulary';
 import { partFlags, toEngine } from '$lib/catalogue/models';
 import type { PartInput, PartPatch } from '$lib/schemas/catalogue';
-import { DomainError } from './api';
-import { fail } from './http-error';
+import { DomainError } from './errors';
+import type { CompactPart } from '$lib/catalogue/compact-part';
 import { recordAudit } from './audit';
 import { db, type DbOrTx } from './db';
 import { fits, partCapacitance, partModels, parts, runs, samples, type StoredModel } from './db/schema';
@@ -204,10 +204,10 @@ function runFit<R extends RunRow>(r: R): R {
 	return { ...r, fit: fit as R['fit'] };
 }
 
-/** A part's detail, or a 404 (page or JSON, through the caller's error handling). */
+/** A part's detail; a missing part is a DomainError 404 (pages turn it into their error page with pageError). */
 export async function detailOr404(id: number) {
 	const d = await detail(id);
-	if (!d) fail(404, `No part ${id} in the catalogue.`);
+	if (!d) throw new DomainError(404, `No part ${id} in the catalogue.`);
 	return d;
 }
 
@@ -284,27 +284,6 @@ export async function list(opts: { q: string; kind?: JunctionKind; limit: number
 	const page = rows.slice(0, opts.limit);
 	return { items: page.map((r) => present(r.part, r.model, r.capacitance)), nextCursor: more ? String(page[page.length - 1].part.id) : null };
 }
-
-/** One catalogue row as the search page needs it: short keys, typical figures only. */
-export type CompactPart = {
-	id: number;
-	pn: string;
-	mk: string;
-	kind: JunctionKind;
-	pkg: string;
-	mat: Material;
-	life: string;
-	tags: string[];
-	/** Typical IS [A], N, RS [Ω], RSH [Ω] or null. */
-	is: number | null;
-	n: number | null;
-	rs: number | null;
-	rsh: number | null;
-	/** Samples measured; −1 when the model is given, not measured; null without a model. */
-	samples: number | null;
-	vr: number | null;
-	updated: number;
-};
 
 /** Every part in a compact form, loaded once by the catalogue page for in-browser search. */
 export async function compactList(): Promise<CompactPart[]> {

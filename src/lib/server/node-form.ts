@@ -6,7 +6,7 @@
 import type { z } from 'zod';
 import { fieldOfIssue, parseNodeFields, type NodeFieldErrors, type NodeFields } from '$lib/node/node-fields';
 import { nodeRequestSchema, nodeRequirementSchema } from '$lib/schemas/node';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { partByNumber } from './projects';
 
 type Schema = typeof nodeRequestSchema | typeof nodeRequirementSchema;

@@ -8,7 +8,7 @@ import { candidateCircuit, nodeRankRows, NodeError, rankNode, SI_2019, type Node
 import { networkOf } from '$lib/schemas/node';
 import type { NodeCurvePoint, NodeRankItem, NodeRankRequestBody, NodeRankResponse } from '$lib/schemas/node-rank';
 import type { RankFlag } from '$lib/schemas/rank';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { modelCache, type CacheSnapshot, type CachedPart } from './model-cache';
 import { judgementTerms, resolveJunction } from './node';
 import { filterOf } from './ranking';

@@ -26,7 +26,7 @@ import {
 	type NodeResponse
 } from '$lib/schemas/node';
 import { fieldsFromNode, queryFromFields } from '$lib/node/node-fields';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { modelCache, type CacheSnapshot, type CachedPart } from './model-cache';
 
 /** An engine position with the part it came from (null for an inline model or an empty candidate slot). */

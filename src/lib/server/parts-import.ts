@@ -7,7 +7,7 @@ import { DEFAULT_MATERIAL } from '$lib/catalogue/vocabulary';
 import { PART_COLUMNS, readPartsList, type Field, type Problem, type Table } from '$lib/catalogue/parts-list';
 import type { ImportPreview, ImportRow, PartValues } from '$lib/catalogue/import-preview';
 import type { PartInput, PartPatch } from '$lib/schemas/catalogue';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { recordAudit } from './audit';
 import { rowFromInput, uniqueViolation, type Part } from './catalogue';
 import { db, type DbOrTx } from './db';

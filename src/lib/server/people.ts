@@ -2,7 +2,7 @@ import { and, asc, eq, gt, inArray, isNotNull, isNull, or, sql } from 'drizzle-o
 import { db, type DbOrTx } from './db';
 import { apiTokens, sessions, userRoles, users } from './db/schema';
 import { recordAudit } from './audit';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { enqueueMail } from './mail';
 import { isRole, type Role } from '$lib/permissions';
 

@@ -4,7 +4,7 @@
  */
 import { createModel, diodeCurrent, scaleModel, voltageAtCurrent } from '$lib/junction';
 import type { PredictRequest } from '$lib/schemas/rank';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 
 export function predictModel(req: PredictRequest): { currentA: number[]; forwardV: number[] } {
 	let model;

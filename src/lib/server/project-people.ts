@@ -9,7 +9,7 @@ import { checkLead, checkRemoval, type Person as Decider } from '$lib/project-pe
 import { STATE_LABEL, isReviewState } from '$lib/review-transitions';
 import { db, type DbOrTx } from './db';
 import { projectMembers, projects, reviewEvents } from './db/schema';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { recordAudit } from './audit';
 import { enqueueMail, type Mail } from './mail';
 import * as people from './people';

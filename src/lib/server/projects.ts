@@ -5,7 +5,7 @@
 import { and, asc, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { db, type DbOrTx } from './db';
 import { auditLog, parts, projectMembers, projects, reviewEvents, shortlistEntries, users, type Requirement } from './db/schema';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { recordAudit } from './audit';
 import * as people from './people';
 import { personRefs } from './people';

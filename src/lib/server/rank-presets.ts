@@ -3,7 +3,7 @@ import { and, asc, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { db } from './db';
 import { rankPresets } from './db/schema';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { operatingPointFromQuery } from '$lib/rank/operating-point-url';
 import { leakageBudget } from './ranking';
 

@@ -6,7 +6,7 @@
 import { and, desc, eq } from 'drizzle-orm';
 import { db } from './db';
 import { projects, reviewEvents, type Requirement } from './db/schema';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { recordAudit } from './audit';
 import { enqueueMail, type Mail } from './mail';
 import * as people from './people';

@@ -7,8 +7,7 @@ import { and, desc, eq, isNull, max } from 'drizzle-orm';
 import { checkRunAction, type RunAction } from '$lib/run-transitions';
 import type { Material } from '$lib/catalogue/vocabulary';
 import type { Actor } from '$lib/permissions';
-import { DomainError } from './api';
-import { fail } from './http-error';
+import { DomainError } from './errors';
 import { recordAudit } from './audit';
 import { db, type DbOrTx } from './db';
 import { auditLog, fits, parts, runs, samples, type FitCause } from './db/schema';
@@ -241,12 +240,3 @@ export async function runDetail(partId: number, runId: number) {
 	};
 }
 
-/** A run's detail, or a 404 (page or JSON, through the caller's error handling). */
-export async function runDetailOr404(partId: number, runId: number): Promise<RunDetail> {
-	try {
-		return await runDetail(partId, runId);
-	} catch (e) {
-		if (e instanceof DomainError && e.status === 404) fail(404, e.message);
-		throw e;
-	}
-}

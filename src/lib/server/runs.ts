@@ -4,11 +4,11 @@
 import { and, eq } from 'drizzle-orm';
 import type { Material } from '$lib/catalogue/vocabulary';
 import type { Measurement } from '$lib/catalogue/capacitance';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import { recordAudit } from './audit';
 import { db } from './db';
 import { fits, parts, runs, samples, type SweepDirection } from './db/schema';
-import type { Issue } from './http-error';
+import type { Issue } from './errors';
 import { rebuildPartModel } from './part-models';
 import { uniqueViolation } from './catalogue';
 import { prepare, type PreparedRun, type RunSettings, type SweepSource } from './run-intake';

@@ -5,7 +5,7 @@
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import type { Cell, Table } from '$lib/catalogue/parts-list';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 
 /** An export: lines stated above the table, columns with their unit ('' for none) and rows of plain values. */
 export type Sheet = { name: string; preamble?: string[]; columns: { label: string; unit: string }[]; rows: (string | number | null)[][] };

@@ -21,7 +21,7 @@ import {
 } from '$lib/junction';
 import { KIND_LABEL, type JunctionKind } from '$lib/catalogue/vocabulary';
 import type { SampleChoice } from '$lib/schemas/spice';
-import { DomainError } from './api';
+import { DomainError } from './errors';
 import * as catalogue from './catalogue';
 import { loadPart, type CachedPart } from './model-cache';
 

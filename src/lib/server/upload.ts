@@ -5,7 +5,8 @@ import { z } from 'zod';
 import { fitInput, pointsInput, temperatureC as temperatureSchema, excludeRange } from '$lib/schemas/catalogue';
 import { capacitanceFitInput, cvPointsUpload, cvSettings, isCvBody, measurement as measurementSchema, type CvSettings } from '$lib/schemas/capacitance';
 import type { Measurement } from '$lib/catalogue/capacitance';
-import { DomainError, zodIssues } from './api';
+import { zodIssues } from './api';
+import { DomainError } from './errors';
 import { UPLOAD_LIMIT_BYTES, type SweepSource } from './run-intake';
 
 export type UploadRequest = CvSettings & {

@@ -1,6 +1,6 @@
 import { fail, type RequestEvent } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/api';
+import { DomainError } from '$lib/server/errors';
 import * as people from '$lib/server/people';
 import { fieldErrors, inviteForm, personForm, roleChangeForm } from '$lib/schemas/people';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { CompactPart } from '$lib/server/catalogue';
+import type { CompactPart } from '$lib/catalogue/compact-part';
 import { JUNCTION_KINDS } from '$lib/junction/names';
 import { mulberry32 } from '$lib/random';
 import { buildIndex, MAX_CANDIDATES, search, type Filters } from './search';

@@ -10,7 +10,7 @@
 // once, and rank before fuzzy ones. Queries of one or two characters match only that way.
 // Pure: no DOM, no stores; the index is built once and only read by `search`.
 import Fuse, { type IFuseOptions } from 'fuse.js';
-import type { CompactPart } from '$lib/server/catalogue';
+import type { CompactPart } from '$lib/catalogue/compact-part';
 import { KIND_LABEL } from '$lib/catalogue/vocabulary';
 
 export type Filters = { q: string; kind: string; pkg: string; mat: string; life: string };

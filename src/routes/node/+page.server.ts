@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { can } from '$lib/permissions';
 import { NODE_PRESET_KEYS, NODE_PRESETS, type NodePresetKey } from '$lib/junction';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/api';
+import { DomainError } from '$lib/server/errors';
 import { evaluateNode } from '$lib/server/node';
 import { rankNodeCatalogue } from '$lib/server/node-rank';
 import { nodeRankRequestSchema, type NodeRankResponse } from '$lib/schemas/node-rank';

@@ -1,8 +1,8 @@
-import { fail as formFail } from '@sveltejs/kit';
+import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { can } from '$lib/permissions';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/api';
+import { DomainError } from '$lib/server/errors';
 import { rankCatalogue } from '$lib/server/ranking';
 import { deletePreset, listPresets, presetForm, savePreset } from '$lib/server/rank-presets';
 import { fieldsFromQuery, parseFields } from '$lib/rank/operating-point-url';
@@ -28,11 +28,11 @@ export const actions: Actions = {
 		const user = requirePermission(event, 'rank:use');
 		const form = Object.fromEntries(await event.request.formData());
 		const parsed = presetForm.safeParse(form);
-		if (!parsed.success) return formFail(400, { presetError: parsed.error.issues[0]?.message ?? 'Check the preset.' });
+		if (!parsed.success) return fail(400, { presetError: parsed.error.issues[0]?.message ?? 'Check the preset.' });
 		try {
 			await savePreset(user.id, parsed.data);
 		} catch (e) {
-			if (e instanceof DomainError) return formFail(e.status, { presetError: e.message });
+			if (e instanceof DomainError) return fail(e.status, { presetError: e.message });
 			throw e;
 		}
 		return { presetSaved: parsed.data.name };
@@ -40,7 +40,7 @@ export const actions: Actions = {
 	deletePreset: async (event) => {
 		const user = requirePermission(event, 'rank:use');
 		const id = z.coerce.number().int().positive().safeParse((await event.request.formData()).get('id'));
-		if (!id.success) return formFail(400, { presetError: 'Which preset? The form lost its id.' });
+		if (!id.success) return fail(400, { presetError: 'Which preset? The form lost its id.' });
 		await deletePreset(user.id, id.data);
 		return { presetDeleted: true };
 	}

@@ -1,3 +1,4 @@
+import type { CompactPart } from '$lib/catalogue/compact-part';
 import { endpoint } from '$lib/server/api';
 import { requirePermission } from '$lib/server/guards';
 import * as catalogue from '$lib/server/catalogue';
@@ -5,7 +6,7 @@ import { sheetFormat, sheetResponse, type Sheet } from '$lib/server/sheets';
 import { KIND_LABEL, LIFECYCLE_LABEL, MATERIAL_LABEL, type Lifecycle } from '$lib/catalogue/vocabulary';
 import { buildIndex, search, type Filters } from '../search';
 
-type Row = catalogue.CompactPart;
+type Row = CompactPart;
 
 // Columns as the list shows them, numbers in SI base units (the unit row says which).
 const COLUMNS: { id: string; label: string; unit: string; value: (p: Row) => string | number | null }[] = [

@@ -1,5 +1,6 @@
 import { requirePermission } from '$lib/server/guards';
 import * as catalogue from '$lib/server/catalogue';
+import { pageError } from '$lib/server/errors';
 import type { FitInterval, FitQuality, StoredModel } from '$lib/catalogue/models';
 import { capacitanceCurve, capacitanceResiduals, type CapacitanceModel, type CvFitInterval, type CvFitQuality } from '$lib/catalogue/capacitance';
 import { can } from '$lib/permissions';
@@ -37,7 +38,7 @@ const REFERENCE_HOT_C = 85;
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'catalogue:read');
 	const id = Number(event.params.id);
-	const d = await catalogue.detailOr404(id);
+	const d = await catalogue.detailOr404(id).catch(pageError);
 	const { part, model } = d;
 	const unitOf = new Map(d.samples.map((s) => [s.id, s.unit]));
 	// Withdrawn runs are listed apart: they no longer shape the model or its curves.

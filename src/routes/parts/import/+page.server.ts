@@ -1,7 +1,7 @@
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/api';
+import { DomainError } from '$lib/server/errors';
 import { readTable } from '$lib/server/sheets';
 import { UPLOAD_LIMIT_BYTES } from '$lib/server/runs';
 import * as partsImport from '$lib/server/parts-import';

@@ -1,6 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/api';
+import { DomainError } from '$lib/server/errors';
 import * as catalogue from '$lib/server/catalogue';
 import { cardTextFrom } from '$lib/catalogue/model-card';
 import { DEFAULT_MATERIAL, MATERIALS, type JunctionKind, type Material } from '$lib/catalogue/vocabulary';

@@ -1,13 +1,14 @@
-import { error, fail } from '@sveltejs/kit';
+import { fail } from '@sveltejs/kit';
+import type { ZodError } from 'zod';
 import { can } from '$lib/permissions';
-import { DomainError } from '$lib/server/api';
+import { formFailure, pageError } from '$lib/server/errors';
 import { requirePermission, requireRole } from '$lib/server/guards';
 import * as projects from '$lib/server/projects';
 import * as review from '$lib/server/review';
 import * as people from '$lib/server/people';
 import * as projectPeople from '$lib/server/project-people';
 import { projectPatchSchema } from '$lib/schemas/project-people';
-import { reviewSchema } from '$lib/schemas/projects';
+import { reviewSchema, shortlistAddFormSchema, shortlistRemoveFormSchema } from '$lib/schemas/projects';
 import { email } from '$lib/schemas/people';
 import { availableActions, isEditable } from '$lib/review-transitions';
 import { queryFromOperatingPoint } from '$lib/rank/operating-point-url';
@@ -24,18 +25,9 @@ function rankLink(r: projects.Project['requirement']): string {
 	return `/rank?${queryFromOperatingPoint(op)}`;
 }
 
-async function projectOr404(id: number) {
-	try {
-		return await projects.find(id);
-	} catch (e) {
-		if (e instanceof DomainError && e.status === 404) error(404, { message: e.message, code: 'not_found' });
-		throw e;
-	}
-}
-
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'project:read');
-	const project = await projectOr404(Number(event.params.id));
+	const project = await projects.find(Number(event.params.id)).catch(pageError);
 	const [entries, members, events, activity] = await Promise.all([
 		projects.entries(project),
 		projects.members(project.id),
@@ -66,11 +58,14 @@ export const load: PageServerLoad = async (event) => {
 	};
 };
 
+/** A refusal by the domain (a DomainError), shown beside the form it came from. */
 function problem(e: unknown, form: string, values: Record<string, string>) {
-	if (e instanceof DomainError) {
-		return fail(e.status, { form, values, error: e.issues?.[0]?.message ?? e.message, message: e.message });
-	}
-	throw e;
+	return formFailure(e, (d) => ({ form, values, error: d.issues?.[0]?.message ?? d.message, message: d.message }));
+}
+
+/** A form that did not parse: its first problem beside it, the typed values kept. */
+function refused(form: string, values: Record<string, string>, e: ZodError) {
+	return fail(400, { form, values, error: e.issues[0]?.message ?? 'Check the form.', message: '' });
 }
 
 const id = (event: RequestEvent) => Number(event.params.id);
@@ -81,7 +76,7 @@ function byEmail(form: string, act: (event: RequestEvent, user: App.User, addres
 		const user = requirePermission(event, 'project:people');
 		const values = { email: String((await event.request.formData()).get('email') ?? '') };
 		const parsed = email.safeParse(values.email);
-		if (!parsed.success) return fail(400, { form, values, error: parsed.error.issues[0].message, message: '' });
+		if (!parsed.success) return refused(form, values, parsed.error);
 		try {
 			await act(event, user, parsed.data);
 			return { form, done: done(parsed.data) };
@@ -95,12 +90,12 @@ export const actions: Actions = {
 	add: async (event) => {
 		const user = requirePermission(event, 'shortlist:edit');
 		const fd = await event.request.formData();
-		const values = { partNumber: String(fd.get('partNumber') ?? '').trim(), note: String(fd.get('note') ?? '').trim() };
-		if (!values.partNumber) return fail(400, { form: 'add', values, error: 'Type a part number.', message: 'Type a part number.' });
-		if (values.note.length > 1000) return fail(400, { form: 'add', values, error: 'Keep the note under 1000 characters.', message: '' });
+		const values = { partNumber: String(fd.get('partNumber') ?? ''), note: String(fd.get('note') ?? '') };
+		const parsed = shortlistAddFormSchema.safeParse(values);
+		if (!parsed.success) return refused('add', values, parsed.error);
 		try {
-			const part = await projects.partByNumber(values.partNumber);
-			await projects.addEntry(id(event), { junctionId: part.id, note: values.note }, user.id);
+			const part = await projects.partByNumber(parsed.data.partNumber);
+			await projects.addEntry(id(event), { junctionId: part.id, note: parsed.data.note }, user.id);
 			// Told back as the catalogue writes it, not as it was typed.
 			return { form: 'add', done: `${part.partNumber} (${part.maker}) added to the shortlist.` };
 		} catch (e) {
@@ -109,10 +104,10 @@ export const actions: Actions = {
 	},
 	remove: async (event) => {
 		const user = requirePermission(event, 'shortlist:edit');
-		const partId = Number((await event.request.formData()).get('partId'));
-		if (!Number.isInteger(partId) || partId <= 0) return fail(400, { form: 'remove', values: {}, error: 'No part named.', message: '' });
+		const parsed = shortlistRemoveFormSchema.safeParse({ partId: (await event.request.formData()).get('partId') ?? '' });
+		if (!parsed.success) return refused('remove', {}, parsed.error);
 		try {
-			await projects.removeEntry(id(event), partId, user.id);
+			await projects.removeEntry(id(event), parsed.data.partId, user.id);
 			return { form: 'remove', done: 'Removed from the shortlist.' };
 		} catch (e) {
 			return problem(e, 'remove', {});
@@ -128,7 +123,7 @@ export const actions: Actions = {
 		const user = requirePermission(event, 'project:people');
 		const values = { leadEmail: String((await event.request.formData()).get('leadEmail') ?? '') };
 		const parsed = projectPatchSchema.safeParse(values);
-		if (!parsed.success) return fail(400, { form: 'lead', values, error: parsed.error.issues[0].message, message: '' });
+		if (!parsed.success) return refused('lead', values, parsed.error);
 		try {
 			await projectPeople.changeLead(id(event), parsed.data.leadEmail, user, process.env.ORIGIN ?? event.url.origin);
 			return { form: 'lead', done: parsed.data.leadEmail ? `${parsed.data.leadEmail} now decides.` : 'Any lead now decides.' };
@@ -142,7 +137,7 @@ export const actions: Actions = {
 		const fd = await event.request.formData();
 		const values = { action: String(fd.get('action') ?? ''), comment: String(fd.get('comment') ?? '') };
 		const parsed = reviewSchema.safeParse({ ...values, expectedVersion: Number(fd.get('version')) || undefined });
-		if (!parsed.success) return fail(400, { form: 'review', values, error: parsed.error.issues[0].message, message: '' });
+		if (!parsed.success) return refused('review', values, parsed.error);
 		try {
 			await review.transition(id(event), parsed.data, user, process.env.ORIGIN ?? event.url.origin);
 			return { form: 'review', done: 'Recorded.' };

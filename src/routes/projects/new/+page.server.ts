@@ -1,6 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/api';
+import { DomainError } from '$lib/server/errors';
 import * as projects from '$lib/server/projects';
 import * as people from '$lib/server/people';
 import { createProjectSchema, emailList, REQUIREMENT_FIELDS, requirementFromForm, requirementToForm, type RequirementForm } from '$lib/schemas/projects';

@@ -1,6 +1,7 @@
 import { requirePermission } from '$lib/server/guards';
 import { can } from '$lib/permissions';
-import { fail } from '$lib/server/http-error';
+import { httpError } from '$lib/server/errors';
+import { compareIdsSchema } from '$lib/schemas/queries';
 import { predictParts, type Prediction } from '$lib/server/ranking';
 import { modelCache } from '$lib/server/model-cache';
 import { fieldsFromQuery, parseFields, queryFromOperatingPoint } from '$lib/rank/operating-point-url';
@@ -12,9 +13,9 @@ import type { PageServerLoad } from './$types';
 // 2–4 parts side by side at the operating point in the query (?ids=3,8,21&v=…).
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'rank:use');
-	const raw = event.url.searchParams.get('ids') ?? '';
-	const ids = [...new Set(raw.split(',').map((s) => Number(s.trim())).filter((n) => Number.isInteger(n) && n > 0 && n < 2 ** 31))];
-	if (ids.length > COMPARE_MAX) fail(400, `Compare at most ${COMPARE_MAX} parts at once.`);
+	const parsed = compareIdsSchema(COMPARE_MAX).safeParse(event.url.searchParams.get('ids') ?? undefined);
+	if (!parsed.success) httpError(400, parsed.error.issues[0].message);
+	const ids = parsed.data;
 	const fields = fieldsFromQuery(event.url.searchParams);
 	const { op, errors } = parseFields(fields);
 	const predictions = op ? await predictParts(ids, op) : new Map<number, Prediction>();

@@ -1,4 +1,5 @@
-import { endpoint, DomainError } from '$lib/server/api';
+import { endpoint } from '$lib/server/api';
+import { DomainError } from '$lib/server/errors';
 import { requirePermission } from '$lib/server/guards';
 import { rankCatalogue } from '$lib/server/ranking';
 import { rankSheet } from '$lib/server/rank-export';

@@ -14,41 +14,17 @@ import {
 import { sql } from 'drizzle-orm';
 import type { RunState } from '../../../run-transitions';
 import type { CapacitanceModel, CvFitInterval, CvFitQuality, CvFitRange, Measurement, PartCapacitance } from '../../../catalogue/capacitance';
+import type { JunctionKind, Lifecycle, Material } from '../../../catalogue/vocabulary';
+import type { FitInterval, FitQuality, FitRange, StoredModel } from '../../../catalogue/models';
 import { users } from './auth';
 import { timestamps } from './columns';
+
+// The column types come from the browser-safe catalogue modules; server code may take them from here.
+export type { FitInterval, FitQuality, FitRange, JunctionKind, Lifecycle, Material, StoredModel };
 
 const bytea = customType<{ data: Buffer; driverData: Buffer }>({
 	dataType: () => 'bytea'
 });
-
-export const JUNCTION_KINDS = ['diode', 'schottky', 'bjt-be', 'bjt-diode', 'jfet-gate', 'led'] as const;
-export type JunctionKind = (typeof JUNCTION_KINDS)[number];
-
-/** Lifecycle in our own words: fine to pick, keep for existing boards only, gone. */
-export const LIFECYCLES = ['in-use', 'not-for-new', 'retired'] as const;
-export type Lifecycle = (typeof LIFECYCLES)[number];
-
-export const MATERIALS = ['silicon', 'metal-semiconductor', 'germanium', 'wide-gap'] as const;
-export type Material = (typeof MATERIALS)[number];
-
-/** A SPICE-named model as stored (TNOM in °C). Optional keys absent when unknown. */
-export type StoredModel = {
-	IS: number;
-	N: number;
-	RS?: number;
-	RSH?: number;
-	ISR?: number;
-	NR?: number;
-	BV?: number;
-	IBV?: number;
-	EG?: number;
-	XTI?: number;
-	TNOM?: number;
-	CJO?: number;
-	VJ?: number;
-	M?: number;
-	FC?: number;
-};
 
 export const parts = pgTable(
 	'parts',
@@ -147,27 +123,10 @@ export const runs = pgTable(
 	]
 );
 
-export type FitInterval = {
-	IS: [number, number];
-	N: [number, number];
-	RS: [number, number];
-	RSH?: [number, number];
-	EG?: [number, number];
-};
 /** Why a fit version was made: the upload, a librarian's re-fit, or a corrected sample or temperature. */
 export const FIT_CAUSES = ['upload', 'refit', 'correction'] as const;
 export type FitCause = (typeof FIT_CAUSES)[number];
 
-export type FitQuality = { points: number; rejected: number; rmsResidualV: number };
-export type FitRange = {
-	currentA: [number, number];
-	voltageV: [number, number];
-	temperatureC: number;
-	/** Smallest |current| anywhere in the run [A]. */
-	minAbsCurrentA?: number;
-	/** True when the run held reverse-bias points. */
-	reverseMeasured?: boolean;
-};
 
 export const fits = pgTable(
 	'fits',

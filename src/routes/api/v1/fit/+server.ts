@@ -1,19 +1,17 @@
 import { json } from '@sveltejs/kit';
-import { DomainError, endpoint } from '$lib/server/api';
+import { endpoint, readQuery } from '$lib/server/api';
 import { requirePermission } from '$lib/server/guards';
 import * as runs from '$lib/server/runs';
 import { readIvFit } from '$lib/server/upload';
-import { MATERIALS, type Material } from '$lib/catalogue/vocabulary';
+import { fitQuerySchema } from '$lib/schemas/queries';
 
 // Stateless fit: { temperatureC, points } or a text/csv body (?temperatureC=, default 25).
 // `?material=` picks the junction material (silicon unless said otherwise).
 export const POST = endpoint(async (event) => {
 	requirePermission(event, 'catalogue:read');
-	const matRaw = event.url.searchParams.get('material') ?? 'silicon';
-	if (!(MATERIALS as readonly string[]).includes(matRaw))
-		throw new DomainError(400, `material is one of ${MATERIALS.join(', ')}.`, [{ path: 'material', message: 'unknown material' }]);
+	const { material } = readQuery(event.url, fitQuerySchema);
 	const body = await readIvFit(event);
-	const prepared = runs.prepare(body.source, { temperatureC: body.temperatureC, temperatureDefaulted: body.temperatureDefaulted, measurement: 'iv' }, { material: matRaw as Material });
+	const prepared = runs.prepare(body.source, { temperatureC: body.temperatureC, temperatureDefaulted: body.temperatureDefaulted, measurement: 'iv' }, { material });
 	if (prepared.measurement !== 'iv') throw new Error('an I–V fit came back as another measurement');
 	const f = prepared.fit;
 	return json({

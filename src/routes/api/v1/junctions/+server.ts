@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { DomainError, endpoint, readJson, zodIssues } from '$lib/server/api';
+import { endpoint, readJson, zodIssues } from '$lib/server/api';
+import { DomainError } from '$lib/server/errors';
 import { requirePermission } from '$lib/server/guards';
 import * as catalogue from '$lib/server/catalogue';
 import { catalogueQuery, partInput } from '$lib/schemas/catalogue';

@@ -1,6 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/api';
+import { DomainError, pageError } from '$lib/server/errors';
 import * as catalogue from '$lib/server/catalogue';
 import { cardTextFrom } from '$lib/catalogue/model-card';
 import { fieldErrors, partFormErrors, partFromForm, partInput, sampleInput } from '$lib/schemas/catalogue';
@@ -9,7 +9,7 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	requirePermission(event, 'catalogue:write');
-	const d = await catalogue.detailOr404(Number(event.params.id));
+	const d = await catalogue.detailOr404(Number(event.params.id)).catch(pageError);
 	const p = d.part;
 	return {
 		part: { id: p.id, partNumber: p.partNumber, lifecycle: p.lifecycle, givenModel: p.givenModel, givenModelSource: p.givenModelSource, measured: d.model?.isMeasured ?? false },

@@ -1,5 +1,4 @@
-import { DomainError } from '$lib/server/api';
-import { fail } from '$lib/server/http-error';
+import { httpError, pageError } from '$lib/server/errors';
 import { requirePermission } from '$lib/server/guards';
 import { partSpiceBlock, spiceResponse } from '$lib/server/spice';
 import { sampleChoiceFrom } from '$lib/schemas/spice';
@@ -9,11 +8,6 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = async (event) => {
 	requirePermission(event, 'catalogue:read');
 	const choice = sampleChoiceFrom(event.url.searchParams);
-	if (!choice.success) fail(400, choice.error.issues[0].message);
-	try {
-		return spiceResponse(await partSpiceBlock(Number(event.params.id), choice.data));
-	} catch (e) {
-		if (e instanceof DomainError && (e.status === 404 || e.status === 409)) fail(e.status, e.message);
-		throw e;
-	}
+	if (!choice.success) httpError(400, choice.error.issues[0].message);
+	return spiceResponse(await partSpiceBlock(Number(event.params.id), choice.data).catch(pageError));
 };

@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { DomainError, endpoint } from '$lib/server/api';
+import { endpoint } from '$lib/server/api';
+import { DomainError } from '$lib/server/errors';
 import { requirePermission } from '$lib/server/guards';
 import { bodyBytes, checkLength } from '$lib/server/upload';
 import { readTable } from '$lib/server/sheets';

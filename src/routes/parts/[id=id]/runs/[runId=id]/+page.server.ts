@@ -1,6 +1,6 @@
 import { fail } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/api';
+import { DomainError, pageError } from '$lib/server/errors';
 import * as catalogue from '$lib/server/catalogue';
 import * as runChanges from '$lib/server/run-changes';
 import { currentMagnitude, type StoredModel } from '$lib/catalogue/models';
@@ -14,7 +14,7 @@ const ids = (event: RequestEvent) => ({ partId: Number(event.params.id), runId: 
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'catalogue:read');
 	const { partId, runId } = ids(event);
-	const run = await runChanges.runDetailOr404(partId, runId);
+	const run = await runChanges.runDetail(partId, runId).catch(pageError);
 	const part = await catalogue.get(partId);
 	// The latest fit versions, each drawn at the temperature it was fitted at, over the measured span.
 	const vs = run.points.map((p) => p[0]);

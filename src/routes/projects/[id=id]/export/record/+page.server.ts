@@ -1,5 +1,4 @@
-import { error } from '@sveltejs/kit';
-import { DomainError } from '$lib/server/api';
+import { pageError } from '$lib/server/errors';
 import { requirePermission } from '$lib/server/guards';
 import * as projects from '$lib/server/projects';
 import * as review from '$lib/server/review';
@@ -8,13 +7,7 @@ import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	requirePermission(event, 'project:read');
-	let project: projects.Project;
-	try {
-		project = await projects.find(Number(event.params.id));
-	} catch (e) {
-		if (e instanceof DomainError) error(404, { message: e.message, code: 'not_found' });
-		throw e;
-	}
+	const project = await projects.find(Number(event.params.id)).catch(pageError);
 	const events = await review.events(project.id);
 	const basis = review.latestDecision(events) ?? events[0] ?? null;
 	const lead = project.leadId ? await people.findById(project.leadId) : null;

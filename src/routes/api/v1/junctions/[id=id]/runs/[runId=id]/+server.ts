@@ -8,7 +8,7 @@ import { correctSchema } from '$lib/schemas/runs';
 export const GET = endpoint(async (event) => {
 	requirePermission(event, 'catalogue:read');
 	const { partId, runId } = runIds(event);
-	return runJson(event, await runChanges.runDetailOr404(partId, runId));
+	return runJson(event, await runChanges.runDetail(partId, runId));
 });
 
 // Corrects the run's sample or temperature: recorded as a change, with a new fit version.

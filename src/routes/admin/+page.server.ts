@@ -1,6 +1,6 @@
 import { fail, type RequestEvent } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/errors';
+import { formFailure } from '$lib/server/errors';
 import * as people from '$lib/server/people';
 import { fieldErrors, inviteForm, personForm, roleChangeForm } from '$lib/schemas/people';
 import type { Actions, PageServerLoad } from './$types';
@@ -25,8 +25,7 @@ function access(kind: 'deactivate' | 'reactivate', done: (name: string) => strin
 		try {
 			await (kind === 'deactivate' ? people.deactivate : people.reactivate)(person.id, actor.id);
 		} catch (e) {
-			if (e instanceof DomainError) return fail(e.status, { changeError: e.message });
-			throw e;
+			return formFailure(e, (d) => ({ changeError: d.message }));
 		}
 		return { done: done(person.name), doneFor: person.id };
 	};

@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { can } from '$lib/permissions';
 import { NODE_PRESET_KEYS, NODE_PRESETS, type NodePresetKey } from '$lib/junction';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/errors';
+import { DomainError, formFailure } from '$lib/server/errors';
 import { evaluateNode } from '$lib/server/node';
 import { rankNodeCatalogue } from '$lib/server/node-rank';
 import { nodeRankRequestSchema, type NodeRankResponse } from '$lib/schemas/node-rank';
@@ -88,8 +88,7 @@ export const actions: Actions = {
 				id = (await projects.setNode(pid, node, user.id)).id;
 			}
 		} catch (e) {
-			if (e instanceof DomainError) return fail(e.status, { saveError: e.message });
-			throw e;
+			return formFailure(e, (d) => ({ saveError: d.message }));
 		}
 		redirect(303, `/projects/${id}`);
 	}

@@ -2,7 +2,7 @@ import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { can } from '$lib/permissions';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/errors';
+import { formFailure } from '$lib/server/errors';
 import { rankCatalogue } from '$lib/server/ranking';
 import { deletePreset, listPresets, presetForm, savePreset } from '$lib/server/rank-presets';
 import { fieldsFromQuery, parseFields } from '$lib/rank/operating-point-url';
@@ -32,8 +32,7 @@ export const actions: Actions = {
 		try {
 			await savePreset(user.id, parsed.data);
 		} catch (e) {
-			if (e instanceof DomainError) return fail(e.status, { presetError: e.message });
-			throw e;
+			return formFailure(e, (d) => ({ presetError: d.message }));
 		}
 		return { presetSaved: parsed.data.name };
 	},

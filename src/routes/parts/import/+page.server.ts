@@ -1,7 +1,7 @@
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/errors';
+import { formFailure } from '$lib/server/errors';
 import { readTable } from '$lib/server/sheets';
 import { UPLOAD_LIMIT_BYTES } from '$lib/server/runs';
 import * as partsImport from '$lib/server/parts-import';
@@ -21,8 +21,7 @@ const carriedTable = z.object({
 });
 
 async function failWith(e: unknown, extra: Record<string, unknown> = {}) {
-	if (e instanceof DomainError) return fail(e.status, { ...extra, error: e.message, issues: e.issues ?? [] });
-	throw e;
+	return formFailure(e, (d) => ({ ...extra, error: d.message, issues: d.issues ?? [] }));
 }
 
 export const actions: Actions = {

@@ -1,6 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { requirePermission } from '$lib/server/guards';
-import { DomainError } from '$lib/server/errors';
+import { DomainError, formFailure } from '$lib/server/errors';
 import * as catalogue from '$lib/server/catalogue';
 import { cardTextFrom } from '$lib/catalogue/model-card';
 import { DEFAULT_MATERIAL, MATERIALS, type JunctionKind, type Material } from '$lib/catalogue/vocabulary';
@@ -47,8 +47,7 @@ export const actions: Actions = {
 		try {
 			id = (await catalogue.create(user, parsed.data)).id;
 		} catch (e) {
-			if (e instanceof DomainError) return fail(e.status, { values, errors: { [e.issues?.[0]?.path ?? 'form']: e.message } });
-			throw e;
+			return formFailure(e, (d) => ({ values, errors: { [d.issues?.[0]?.path ?? 'form']: d.message } }));
 		}
 		redirect(303, `/parts/${id}`);
 	}

@@ -31,6 +31,24 @@ export function scipyNormalQuantiles(ps: number[]): number[] {
 	return runPython('import json, sys\nfrom scipy.stats import norm\nprint(json.dumps([float(norm.ppf(p)) for p in json.load(sys.stdin)]))', ps) as number[];
 }
 
+/** Student t quantiles for each [p, df] pair, from scipy.stats.t.ppf. */
+export function scipyTQuantiles(cases: [number, number][]): number[] {
+	return runPython('import json, sys\nfrom scipy.stats import t\nprint(json.dumps([float(t.ppf(p, df)) for p, df in json.load(sys.stdin)]))', cases) as number[];
+}
+
+/** The least-squares solution of X·b ≈ y (X given as its columns), from numpy.linalg.lstsq (LAPACK gelsd, SVD). */
+export function numpyLeastSquares(columns: number[][], y: number[]): number[] {
+	return runPython(
+		'import json, sys\nimport numpy as np\nc, y = json.load(sys.stdin)\nb = np.linalg.lstsq(np.array(c).T, np.array(y), rcond=None)[0]\nprint(json.dumps([float(v) for v in b]))',
+		[columns, y]
+	) as number[];
+}
+
+/** The inverse of a square matrix, from numpy.linalg.inv (LAPACK gesv). */
+export function numpyInverse(a: number[][]): number[][] {
+	return runPython('import json, sys\nimport numpy as np\nprint(json.dumps(np.linalg.inv(np.array(json.load(sys.stdin))).tolist()))', a) as number[][];
+}
+
 function runPython(script: string, input: unknown): unknown {
 	try {
 		const out = execFileSync(DEBIAN_PYTHON, ['-W', 'ignore', '-c', script], { input: JSON.stringify(input), encoding: 'utf8' });

@@ -1,8 +1,6 @@
 import { formatTemperature } from '$lib/junction/units';
 import { flagText } from '$lib/schemas/node';
 
-/** Amps, volts, ohms with SI prefixes; a dash when absent (the catalogue's one formatter). */
-export { si } from '$lib/catalogue/format';
 
 export function temperatures(r: { temperatureC?: number; temperatureRangeC?: [number, number] }): string {
 	if (r.temperatureRangeC) return `${formatTemperature(r.temperatureRangeC[0])} … ${formatTemperature(r.temperatureRangeC[1])}`;

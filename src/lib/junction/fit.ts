@@ -19,6 +19,7 @@ import { FitError, type DataIssue } from './errors';
 import { invert, leastSquares, tQuantile975 } from './linalg';
 import { median } from 'simple-statistics';
 import { parseSweepCsv, type ParsedSweep, type SweepOptions, type SweepRun } from './csv';
+import { checkRun, excludeWindow, forwardPoints } from './fit-runs';
 
 export interface FitOptions {
 	constants?: PhysicalConstants;
@@ -74,66 +75,6 @@ interface Pts {
 	V: number[];
 	Tk: number[];
 	vt: number[];
-}
-
-function forwardPoints(run: SweepRun): { I: number[]; V: number[] } {
-	const I: number[] = [];
-	const V: number[] = [];
-	for (let k = 0; k < run.voltageV.length; k++) {
-		if (run.voltageV[k] > 0 && run.currentA[k] > 0) {
-			I.push(run.currentA[k]);
-			V.push(run.voltageV[k]);
-		}
-	}
-	return { I, V };
-}
-
-/** Reasons a run cannot support a fit (empty when it can). */
-function checkRun(run: SweepRun, minPoints: number, minDecades: number): string[] {
-	const reasons: string[] = [];
-	const at = `at ${run.temperatureC.toFixed(1)} °C`;
-	let fwd = 0;
-	let wrong = 0;
-	for (let k = 0; k < run.voltageV.length; k++) {
-		if (run.voltageV[k] > 0) {
-			fwd++;
-			if (run.currentA[k] < 0) wrong++;
-		}
-	}
-	if (fwd > 0 && wrong * 2 > fwd)
-		return [`${at}: current is negative at forward bias in ${wrong} of ${fwd} points (wrong sign; swap the leads or the sign convention)`];
-	if (fwd === 0) {
-		let revWrong = 0;
-		let rev = 0;
-		for (let k = 0; k < run.voltageV.length; k++)
-			if (run.voltageV[k] < 0) {
-				rev++;
-				if (run.currentA[k] > 0) revWrong++;
-			}
-		if (rev > 0 && revWrong * 2 > rev)
-			return [`${at}: current is positive at reverse bias (wrong sign), and there are no forward-bias points`];
-		return [`${at}: no forward-bias points; IS and N need a forward sweep`];
-	}
-	const { I, V } = forwardPoints(run);
-	if (I.length < minPoints) reasons.push(`${at}: too few forward points (${I.length}; need at least ${minPoints})`);
-	if (I.length >= 2) {
-		const lo = Math.min(...I);
-		const hi = Math.max(...I);
-		const decades = Math.log10(hi / lo);
-		if (decades < minDecades)
-			reasons.push(`${at}: forward current spans ${decades.toFixed(2)} decades; need at least ${minDecades}`);
-		let drops = 0;
-		let bigDrop = false;
-		for (let k = 1; k < I.length; k++) {
-			if (V[k] > V[k - 1] && I[k] < 0.9 * I[k - 1]) {
-				drops++;
-				if (I[k] < 0.5 * I[k - 1]) bigDrop = true;
-			}
-		}
-		if (bigDrop || drops > Math.max(1, 0.05 * I.length))
-			reasons.push(`${at}: forward current is not monotonic in voltage (${drops} drops); check for range switching or heating`);
-	}
-	return reasons;
 }
 
 /** Linear least-squares start: V = A·ln I + RS·I + C → N = A/Vt, IS = exp(−C/A). */
@@ -201,53 +142,59 @@ function residuals(pts: Pts, ev: Evaluator, p: number[]): number[] {
 	return pts.V.map((v, k) => v - f(k));
 }
 
-/** The runs without the merged points whose voltage lies in [lo, hi], and how many raw points those held. */
-function excludeWindow(runs: SweepRun[], [lo, hi]: [number, number]): { runs: SweepRun[]; excluded: number } {
-	if (!Number.isFinite(lo) || !Number.isFinite(hi) || lo > hi) throw new RangeError(`excludeV must be a finite [lo, hi] with lo ≤ hi, got [${lo}, ${hi}]`);
-	let excluded = 0;
-	const out = runs.map((r) => {
-		const keep: number[] = [];
-		for (let k = 0; k < r.voltageV.length; k++) {
-			if (r.voltageV[k] < lo || r.voltageV[k] > hi) keep.push(k);
-			else excluded += r.count[k];
-		}
-		return {
-			...r,
-			voltageV: Float64Array.from(keep, (k) => r.voltageV[k]),
-			currentA: Float64Array.from(keep, (k) => r.currentA[k]),
-			count: Int32Array.from(keep, (k) => r.count[k]),
-			points: keep.reduce((a, k) => a + r.count[k], 0)
-		};
-	});
-	return { runs: out, excluded };
+/** What a fit holds fixed before it starts: the runs kept, the material's defaults, the nominal run. */
+interface FitSetting {
+	constants: PhysicalConstants;
+	material: JunctionMaterial;
+	XTI: number;
+	minPoints: number;
+	runs: SweepRun[];
+	/** Raw points left out by `excludeV`, when it was given. */
+	excluded?: number;
+	/** EG is fitted when runs at two or more temperatures exist; otherwise egDefault is held. */
+	fitEG: boolean;
+	egDefault: number;
+	egAssumed: boolean;
+	/** The run nearest 27 °C, so IS is reported where it was measured. */
+	nomRun: SweepRun;
+	tnomC: number;
+	tnK: number;
 }
 
-/**
- * Fit a junction model to a parsed sweep (one run, or several at different temperatures).
- * Returns the model with 95 % intervals, fit quality and the measured range.
- * @throws FitError with plain reasons when the data cannot support a fit.
- */
-export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResult {
-	const constants = options.constants ?? SI_2019;
+function fitSetting(sweep: ParsedSweep, options: FitOptions): FitSetting {
 	const material = canonicalMaterial(options.material ?? 'silicon');
 	const minPoints = options.minPoints ?? 5;
-	const minDecades = options.minDecades ?? 1;
-	const XTI = options.XTI ?? MATERIAL_DEFAULTS[material].XTI;
 	const cut = options.excludeV ? excludeWindow(sweep.runs, options.excludeV) : null;
 	const runs = cut ? cut.runs : sweep.runs;
-	const reasons = runs.flatMap((r) => checkRun(r, minPoints, minDecades));
+	const reasons = runs.flatMap((r) => checkRun(r, minPoints, options.minDecades ?? 1));
 	if (reasons.length) throw new FitError(reasons);
 	const fitEG = runs.length >= 2;
-	const egDefault = options.EG ?? MATERIAL_DEFAULTS[material].EG;
-	const egAssumed = !fitEG && options.EG === undefined && MATERIAL_DEFAULTS[material].assumed === true;
-	// Nominal temperature: the run nearest 27 °C, so IS is reported where it was measured.
 	const nomRun = runs.reduce((b, r) => (Math.abs(r.temperatureC - 27) < Math.abs(b.temperatureC - 27) ? r : b));
 	const tnomC = Math.round(nomRun.temperatureC * 100) / 100;
-	const tnK = celsiusToKelvin(tnomC);
+	return {
+		constants: options.constants ?? SI_2019,
+		material,
+		XTI: options.XTI ?? MATERIAL_DEFAULTS[material].XTI,
+		minPoints,
+		runs,
+		...(cut ? { excluded: cut.excluded } : {}),
+		fitEG,
+		egDefault: options.EG ?? MATERIAL_DEFAULTS[material].EG,
+		egAssumed: !fitEG && options.EG === undefined && MATERIAL_DEFAULTS[material].assumed === true,
+		nomRun,
+		tnomC,
+		tnK: celsiusToKelvin(tnomC)
+	};
+}
 
+type RunStart = { lnIS: number; N: number; RS: number; Tk: number };
+
+/** Every run's forward points pooled, and each run's own linear start. */
+function pooledPoints(set: FitSetting): { pts: Pts; starts: RunStart[] } {
+	const { constants } = set;
 	const pts: Pts = { I: [], V: [], Tk: [], vt: [] };
-	const starts: { lnIS: number; N: number; RS: number; Tk: number }[] = [];
-	for (const run of runs) {
+	const starts: RunStart[] = [];
+	for (const run of set.runs) {
 		const { I, V } = forwardPoints(run);
 		const Tk = celsiusToKelvin(run.temperatureC);
 		const vt = (constants.k * Tk) / constants.q;
@@ -264,45 +211,52 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 			pts.vt.push(vt);
 		}
 	}
+	return { pts, starts };
+}
+
+/** [lnIS, N, RS] (+ EG) to start Levenberg–Marquardt from: the runs' starts averaged, EG from a line in 1/T. */
+function startValues(set: FitSetting, starts: RunStart[]): number[] {
+	const { constants, XTI, tnK } = set;
 	const N0 = starts.reduce((a, s) => a + s.N, 0) / starts.length;
 	const RS0 = Math.max(0, starts.reduce((a, s) => a + s.RS, 0) / starts.length);
-	let EG0 = egDefault;
+	let EG0 = set.egDefault;
 	let lnIS0 = starts.find((s) => Math.abs(s.Tk - tnK) < 1e-9)?.lnIS ?? starts[0].lnIS;
-	if (fitEG) {
-		// N·ln IS(T) − XTI·ln T = const − EG·q/(k·T): a straight line in 1/T gives the EG start.
-		const y = starts.map((s) => N0 * s.lnIS - XTI * Math.log(s.Tk));
-		const x = starts.map((s) => -constants.q / (constants.k * s.Tk));
-		const [eg, c] = leastSquares([x, starts.map(() => 1)], y);
-		if (eg > 0.05 && eg < 6) EG0 = eg;
-		lnIS0 = (c + XTI * Math.log(tnK) - (EG0 * constants.q) / (constants.k * tnK)) / N0;
-		if (!Number.isFinite(lnIS0)) lnIS0 = starts[0].lnIS;
-	}
-	const ev = evaluator(pts, tnK, XTI, egDefault, fitEG);
-	let start = fitEG ? [lnIS0, N0, RS0, EG0] : [lnIS0, N0, RS0];
-	let p = runLM(pts, ev, start, fitEG);
+	if (!set.fitEG) return [lnIS0, N0, RS0];
+	// N·ln IS(T) − XTI·ln T = const − EG·q/(k·T): a straight line in 1/T gives the EG start.
+	const y = starts.map((s) => N0 * s.lnIS - XTI * Math.log(s.Tk));
+	const x = starts.map((s) => -constants.q / (constants.k * s.Tk));
+	const [eg, c] = leastSquares([x, starts.map(() => 1)], y);
+	if (eg > 0.05 && eg < 6) EG0 = eg;
+	lnIS0 = (c + XTI * Math.log(tnK) - (EG0 * constants.q) / (constants.k * tnK)) / N0;
+	if (!Number.isFinite(lnIS0)) lnIS0 = starts[0].lnIS;
+	return [lnIS0, N0, RS0, EG0];
+}
 
-	// Reject points with residuals beyond 5 robust σ (and 1 mV), then refit once.
-	let r = residuals(pts, ev, p);
-	const sigma = 1.4826 * median(r.map(Math.abs));
-	const limit = Math.max(5 * sigma, 1e-3);
+/** The fit, refitted once without points whose residual is beyond 5 robust σ (and 1 mV). */
+function fitRejectingOutliers(set: FitSetting, pts: Pts, start: number[]): { p: number[]; used: Pts; ev: Evaluator; r: number[] } {
+	const evOf = (q: Pts) => evaluator(q, set.tnK, set.XTI, set.egDefault, set.fitEG);
+	const ev = evOf(pts);
+	const p = runLM(pts, ev, start, set.fitEG);
+	const r = residuals(pts, ev, p);
+	const limit = Math.max(5 * 1.4826 * median(r.map(Math.abs)), 1e-3);
 	const bad = r.map((x) => Math.abs(x) > limit);
 	const nBad = bad.filter(Boolean).length;
-	let usePts = pts;
-	let useEv = ev;
-	if (nBad > 0 && pts.I.length - nBad >= minPoints) {
-		const f = <T>(a: T[]) => a.filter((_, k) => !bad[k]);
-		usePts = { I: f(pts.I), V: f(pts.V), Tk: f(pts.Tk), vt: f(pts.vt) };
-		useEv = evaluator(usePts, tnK, XTI, egDefault, fitEG);
-		start = p;
-		p = runLM(usePts, useEv, start, fitEG);
-		r = residuals(usePts, useEv, p);
-	}
-	const n = usePts.I.length;
+	if (nBad === 0 || pts.I.length - nBad < set.minPoints) return { p, used: pts, ev, r };
+	const f = <T>(a: T[]) => a.filter((_, k) => !bad[k]);
+	const used = { I: f(pts.I), V: f(pts.V), Tk: f(pts.Tk), vt: f(pts.vt) };
+	const usedEv = evOf(used);
+	const refit = runLM(used, usedEv, p, set.fitEG);
+	return { p: refit, used, ev: usedEv, r: residuals(used, usedEv, refit) };
+}
+
+/** 95 % intervals of IS, N, RS (and EG) from cov = s²·(JᵀJ)⁻¹ and Student's t; the residual sum of squares. */
+function parameterIntervals(fit: { p: number[]; used: Pts; ev: Evaluator; r: number[] }, fitEG: boolean): { interval: FitResult['interval']; ssr: number } {
+	const { p, used, ev, r } = fit;
+	const n = used.I.length;
 	const np = p.length;
 	const ssr = r.reduce((a, x) => a + x * x, 0);
 	const dof = Math.max(1, n - np);
-	const s2 = ssr / dof;
-	const jac = useEv.jac(p);
+	const jac = ev.jac(p);
 	const jtj = Array.from({ length: np }, () => new Array<number>(np).fill(0));
 	for (let k = 0; k < n; k++) {
 		const row = jac(k);
@@ -310,65 +264,52 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 	}
 	let cov: number[][];
 	try {
-		cov = invert(jtj).map((row) => row.map((v) => v * s2));
+		cov = invert(jtj).map((row) => row.map((v) => (v * ssr) / dof));
 	} catch {
 		throw new FitError(['the data do not determine IS, N and RS separately (singular fit); extend the current range']);
 	}
 	const t = tQuantile975(dof);
-	const sd = (i: number) => Math.sqrt(Math.max(0, cov[i][i]));
-	const IS = Math.exp(p[0]);
-	const N = p[1];
-	const RS = p[2];
+	const half = (i: number) => t * Math.sqrt(Math.max(0, cov[i][i]));
 	const interval: FitResult['interval'] = {
-		IS: [Math.exp(p[0] - t * sd(0)), Math.exp(p[0] + t * sd(0))],
-		N: [N - t * sd(1), N + t * sd(1)],
-		RS: [Math.max(0, RS - t * sd(2)), RS + t * sd(2)]
+		IS: [Math.exp(p[0] - half(0)), Math.exp(p[0] + half(0))],
+		N: [p[1] - half(1), p[1] + half(1)],
+		RS: [Math.max(0, p[2] - half(2)), p[2] + half(2)]
 	};
-	const EG = fitEG ? p[3] : egDefault;
-	if (fitEG) interval.EG = [EG - t * sd(3), EG + t * sd(3)];
+	if (fitEG) interval.EG = [p[3] - half(3), p[3] + half(3)];
+	return { interval, ssr };
+}
 
-	// Shunt: current left over after the Shockley term at reverse / near-zero points of the nominal run.
-	let RSH: number | undefined;
-	const nomVt = (constants.k * tnK) / constants.q;
+/**
+ * The shunt: the current left over after the Shockley term at reverse and near-zero points of
+ * the nominal run, as a conductance through the origin. Kept only when it is resolved from
+ * zero at 95 % — otherwise the data show no shunt — so both ends of its interval are finite.
+ */
+function shunt(run: SweepRun, IS: number, N: number, nomVt: number): { RSH: number; interval: Interval } | null {
 	let sxy = 0;
 	let sxx = 0;
-	let m = 0;
 	const shuntPts: { v: number; i: number }[] = [];
-	for (let k = 0; k < nomRun.voltageV.length; k++) {
-		const v = nomRun.voltageV[k];
+	for (let k = 0; k < run.voltageV.length; k++) {
+		const v = run.voltageV[k];
 		if (v < 3 * N * nomVt && v !== 0) {
-			const ish = nomRun.currentA[k] - IS * Math.expm1(v / (N * nomVt));
+			const ish = run.currentA[k] - IS * Math.expm1(v / (N * nomVt));
 			shuntPts.push({ v, i: ish });
 			sxy += v * ish;
 			sxx += v * v;
-			m++;
 		}
 	}
-	const warnings: DataIssue[] = [...sweep.warnings];
-	if (m >= 2 && sxx > 0) {
-		const g = sxy / sxx;
-		const resid = shuntPts.reduce((a, q) => a + (q.i - g * q.v) ** 2, 0);
-		const seG = m > 1 ? Math.sqrt(resid / Math.max(1, m - 1) / sxx) : Infinity;
-		// Keep the shunt only when it is resolved from zero (95 %) — otherwise the data show no shunt.
-		if (g > 0 && g > tQuantile975(Math.max(1, m - 1)) * seG) {
-			RSH = 1 / g;
-			const tg = tQuantile975(Math.max(1, m - 1));
-			// g − t·se > 0 here (that is the test above), so the upper end is finite and positive.
-			interval.RSH = [1 / (g + tg * seG), 1 / (g - tg * seG)];
-		}
-	}
-	if (RS > 0 && interval.RS[0] === 0) warnings.push({ message: 'RS is not resolved from zero by these data' });
-	if (egAssumed)
-		warnings.push({
-			message: `EG ${EG} eV assumed for a ${material} junction (it varies widely between wide-gap materials); give EG or measure at two or more temperatures`
-		});
+	const m = shuntPts.length;
+	if (m < 2 || !(sxx > 0)) return null;
+	const g = sxy / sxx;
+	const resid = shuntPts.reduce((a, q) => a + (q.i - g * q.v) ** 2, 0);
+	const seG = Math.sqrt(resid / (m - 1) / sxx);
+	const tg = tQuantile975(m - 1);
+	if (!(g > 0 && g > tg * seG)) return null;
+	// g − t·se > 0 here (that is the test above), so the upper end is finite and positive.
+	return { RSH: 1 / g, interval: [1 / (g + tg * seG), 1 / (g - tg * seG)] };
+}
 
-	let model: JunctionModel;
-	try {
-		model = createModel({ IS, N, RS, RSH, EG, XTI, TNOM: tnomC, ...(egAssumed ? { egAssumed: true as const } : {}) }, material);
-	} catch (e) {
-		throw new FitError([`fitted parameters are outside the physical domain: ${(e as Error).message}`]);
-	}
+/** The voltage span, the smallest |current| and whether reverse bias was measured, over every run kept. */
+function measuredRange(runs: SweepRun[], used: Pts): FitResult['range'] {
 	let vmin = Infinity;
 	let vmax = -Infinity;
 	let minAbs = Infinity;
@@ -381,7 +322,47 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 		}
 		if (run.minAbsCurrentA > 0) minAbs = Math.min(minAbs, run.minAbsCurrentA);
 	}
-	const temps = runs.map((r2) => r2.temperatureC);
+	const temps = runs.map((r) => r.temperatureC);
+	return {
+		currentA: [Math.min(...used.I), Math.max(...used.I)],
+		voltageV: [vmin, vmax],
+		temperatureC: temps.length === 1 ? temps[0] : [Math.min(...temps), Math.max(...temps)],
+		temperaturesC: temps,
+		reverseMeasured: reverse,
+		minAbsCurrentA: Number.isFinite(minAbs) ? minAbs : 0
+	};
+}
+
+/**
+ * Fit a junction model to a parsed sweep (one run, or several at different temperatures).
+ * Returns the model with 95 % intervals, fit quality and the measured range.
+ * @throws FitError with plain reasons when the data cannot support a fit.
+ */
+export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResult {
+	const set = fitSetting(sweep, options);
+	const { pts, starts } = pooledPoints(set);
+	const fit = fitRejectingOutliers(set, pts, startValues(set, starts));
+	const { interval, ssr } = parameterIntervals(fit, set.fitEG);
+	const [lnIS, N, RS] = fit.p;
+	const IS = Math.exp(lnIS);
+	const EG = set.fitEG ? fit.p[3] : set.egDefault;
+	const sh = shunt(set.nomRun, IS, N, (set.constants.k * set.tnK) / set.constants.q);
+	if (sh) interval.RSH = sh.interval;
+
+	const warnings: DataIssue[] = [...sweep.warnings];
+	if (RS > 0 && interval.RS[0] === 0) warnings.push({ message: 'RS is not resolved from zero by these data' });
+	if (set.egAssumed)
+		warnings.push({
+			message: `EG ${EG} eV assumed for a ${set.material} junction (it varies widely between wide-gap materials); give EG or measure at two or more temperatures`
+		});
+	let model: JunctionModel;
+	try {
+		const egAssumed = set.egAssumed ? { egAssumed: true as const } : {};
+		model = createModel({ IS, N, RS, RSH: sh?.RSH, EG, XTI: set.XTI, TNOM: set.tnomC, ...egAssumed }, set.material);
+	} catch (e) {
+		throw new FitError([`fitted parameters are outside the physical domain: ${(e as Error).message}`]);
+	}
+	const n = fit.used.I.length;
 	return {
 		model,
 		interval,
@@ -389,16 +370,9 @@ export function fitSweep(sweep: ParsedSweep, options: FitOptions = {}): FitResul
 			points: n,
 			rejected: sweep.rejected + (pts.I.length - n),
 			rmsResidualV: Math.sqrt(ssr / n),
-			...(cut ? { excluded: cut.excluded } : {})
+			...(set.excluded !== undefined ? { excluded: set.excluded } : {})
 		},
-		range: {
-			currentA: [Math.min(...usePts.I), Math.max(...usePts.I)],
-			voltageV: [vmin, vmax],
-			temperatureC: temps.length === 1 ? temps[0] : [Math.min(...temps), Math.max(...temps)],
-			temperaturesC: temps,
-			reverseMeasured: reverse,
-			minAbsCurrentA: Number.isFinite(minAbs) ? minAbs : 0
-		},
+		range: measuredRange(set.runs, fit.used),
 		warnings
 	};
 }

@@ -100,7 +100,7 @@ export function solveBias(s: ScaledJunction, V: number): { i: number; vd: number
 	// Zero bias gives exactly zero current in every term; avoid rounding noise there.
 	if (V === 0) return { i: 0, vd: 0 };
 	if (s.ISR === 0 && !s.hasBV) return plainCurrent(s, V);
-	if (s.RS === 0 || V === 0) return { i: junctionCurrent(s, V), vd: V };
+	if (s.RS === 0) return { i: junctionCurrent(s, V), vd: V };
 	const start = plainCurrent(s, V).vd;
 	const f = (vd: number, out: Float64Array) => {
 		junctionCurrentAndSlope(s, vd, out);

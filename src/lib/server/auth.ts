@@ -88,7 +88,7 @@ export async function requestSignInLink(event: RequestEvent, email: string, next
 		headers: { 'content-type': 'application/x-www-form-urlencoded' },
 		body: new URLSearchParams({ email: address, callbackUrl: `${origin}${next}` })
 	});
-	// SvelteKit's own origin check already guards the form action that calls this.
+	// The cross-site form check in hooks.server.ts (src/lib/server/csrf.ts) already guards the form action that calls this.
 	await Auth(request, { ...config, raw, skipCSRFCheck });
 	return 'sent';
 }

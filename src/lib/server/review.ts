@@ -20,7 +20,7 @@ import { spiceBlock, type SpiceBlock, type SpicePart } from './spice';
 import { leakageBudget, shortfalls } from '$lib/projects/shortlist';
 import type { Prediction, Verdict } from './projects';
 import type { NodeEntryPrediction } from '$lib/schemas/node';
-import { checkTransition, isReviewState, type ReviewAction, type ReviewState } from '$lib/review-transitions';
+import { checkTransition, type ReviewAction, type ReviewState } from '$lib/review-transitions';
 import type { ReviewResource } from '$lib/permissions';
 import { formatSI, formatTemperature } from '$lib/junction/units';
 
@@ -262,10 +262,6 @@ export function changedSince(snapshot: Snapshot, current: projectsDomain.Entry[]
 
 function isJunctionKind(k: string): k is JunctionKind {
 	return (JUNCTION_KINDS as readonly string[]).includes(k);
-}
-
-export function isDecided(state: string): boolean {
-	return isReviewState(state) && (state === 'approved' || state === 'declined');
 }
 
 

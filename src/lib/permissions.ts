@@ -46,7 +46,7 @@ const GRANTS: Record<Action, readonly Role[] | 'any-role'> = {
 };
 
 /** What each action lets a person do, in the words the screens use. */
-export const ACTION_WORDS: Record<Action, string> = {
+const ACTION_WORDS: Record<Action, string> = {
 	'catalogue:read': 'Looking up parts in the catalogue',
 	'catalogue:write': 'Adding and changing parts, samples and measurement runs',
 	'rank:use': 'Ranking junctions',

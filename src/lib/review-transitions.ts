@@ -19,7 +19,7 @@ export type ReviewAction = (typeof REVIEW_ACTIONS)[number];
 
 type Transition = { from: readonly ReviewState[]; to: ReviewState; permission: 'review:submit' | 'review:decide' };
 
-export const TRANSITIONS: Record<ReviewAction, Transition> = {
+const TRANSITIONS: Record<ReviewAction, Transition> = {
 	submit: { from: ['draft', 'returned'], to: 'in-review', permission: 'review:submit' },
 	approve: { from: ['in-review'], to: 'approved', permission: 'review:decide' },
 	'request-changes': { from: ['in-review'], to: 'returned', permission: 'review:decide' },
@@ -43,7 +43,7 @@ export const ACTION_LABEL: Record<ReviewAction, string> = {
 };
 
 /** Past tense, for activity lists and mail subjects. */
-export const ACTION_DONE: Record<ReviewAction, string> = {
+const ACTION_DONE: Record<ReviewAction, string> = {
 	submit: 'sent for review',
 	approve: 'approved',
 	'request-changes': 'sent back for changes',

@@ -19,7 +19,7 @@ export type RunAction = (typeof RUN_ACTIONS)[number];
 
 type Transition = { from: readonly RunState[]; to: RunState; permission: 'catalogue:write' };
 
-export const RUN_TRANSITIONS: Record<RunAction, Transition> = {
+const RUN_TRANSITIONS: Record<RunAction, Transition> = {
 	withdraw: { from: ['active'], to: 'withdrawn', permission: 'catalogue:write' },
 	refit: { from: ['active'], to: 'active', permission: 'catalogue:write' },
 	correct: { from: ['active'], to: 'active', permission: 'catalogue:write' },
@@ -41,7 +41,7 @@ export const RUN_ACTION_LABEL: Record<RunAction, string> = {
 };
 
 /** Past tense, for history lists. */
-export const RUN_ACTION_DONE: Record<RunAction, string> = {
+const RUN_ACTION_DONE: Record<RunAction, string> = {
 	withdraw: 'withdrawn',
 	refit: 'fitted again',
 	correct: 'corrected',

@@ -4,7 +4,7 @@
 import { parseTemperature } from '../junction/units';
 
 export const DEFAULT_PATTERN = '{part}_{sample}_{temperature}';
-export const PATTERN_FIELDS = ['part', 'sample', 'temperature', 'direction', 'skip'] as const;
+const PATTERN_FIELDS = ['part', 'sample', 'temperature', 'direction', 'skip'] as const;
 export type PatternField = (typeof PATTERN_FIELDS)[number];
 export type Direction = 'forward' | 'reverse' | 'both';
 
@@ -57,7 +57,7 @@ export function baseName(path: string): string {
 }
 
 /** °C from a name's temperature: 85C, -40C, m40C, 25p5C, 358.15K. @throws Error when out of reach. */
-export function nameTemperature(text: string): number {
+function nameTemperature(text: string): number {
 	const t = text.replace(/\s/g, '').replace(/^m/i, '-').replace(/(\d)p(\d)/i, '$1.$2').replace(/degc$/i, 'C');
 	return parseTemperature(t).celsius;
 }

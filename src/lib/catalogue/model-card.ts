@@ -9,7 +9,7 @@ export type CardReading =
 	| { ok: false; message: string };
 
 /** Largest card text accepted [characters]: a maker's card is a few hundred. */
-export const CARD_LIMIT = 20_000;
+const CARD_LIMIT = 20_000;
 
 /**
  * Reads exactly one diode `.model` card. Only the parameters the card states are kept (the

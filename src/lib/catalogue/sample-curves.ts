@@ -45,7 +45,7 @@ function leak(model: JunctionModel, biasV: number, temperatureC: number): number
 }
 
 /** Curves over x for every sample, their envelope and the typical model; points ≤ 0 or NaN are left out. */
-export function curveSet(samples: readonly LabelledModel[], typical: JunctionModel, xs: readonly number[], at: (m: JunctionModel, x: number) => number): CurveSet {
+function curveSet(samples: readonly LabelledModel[], typical: JunctionModel, xs: readonly number[], at: (m: JunctionModel, x: number) => number): CurveSet {
 	const keep = (p: Point) => p.y > 0 && Number.isFinite(p.y);
 	const curves = samples.map((s) => ({ unit: s.unit, points: xs.map((x) => ({ x, y: at(s.model, x) })) }));
 	const envelope = xs.map((x, i) => ({ x, y: Math.max(...curves.map((c) => c.points[i].y).filter((y) => !Number.isNaN(y))) }));
@@ -62,7 +62,7 @@ export function leakageAgainstTemperature(samples: readonly LabelledModel[], typ
 }
 
 /** |I| against bias [V] at a temperature [°C], per sample. */
-export function currentAgainstBias(samples: readonly LabelledModel[], typical: JunctionModel, temperatureC: number, biasesV: readonly number[]): CurveSet {
+function currentAgainstBias(samples: readonly LabelledModel[], typical: JunctionModel, temperatureC: number, biasesV: readonly number[]): CurveSet {
 	return curveSet(samples, typical, biasesV, (m, v) => leak(m, v, temperatureC));
 }
 

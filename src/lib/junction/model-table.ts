@@ -30,7 +30,7 @@ import { shuntCorrectedVoltage, solveBias, voltageAtCurrent } from './shockley';
 import { depletionCapacitance } from './capacitance';
 
 /** How many temperatures' scaled parameters a table keeps (least recently used dropped). */
-export const SCALED_TEMPERATURES = 8;
+const SCALED_TEMPERATURES = 8;
 
 /** Every model's temperature-dependent parameters at one temperature. */
 interface ScaledColumns {

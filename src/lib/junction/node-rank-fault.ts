@@ -22,7 +22,7 @@ import { voltageAtCurrent } from './shockley';
 import { scaleModel } from './temperature';
 
 /** Terminals this close [V] to the clamping one may share a fault's current. */
-export const SHARED_CLAMP_V = 1;
+const SHARED_CLAMP_V = 1;
 
 /** Worst-sample excursion [V] per part at [cold, hot]; NaN where nothing clamps. Null when the shortcut does not hold (file header). */
 export function faultEstimates(

@@ -37,7 +37,7 @@ import { noisePower } from './noise';
 export type RankPosition = Placement & { fixed: NodePosition | null };
 
 /** The figures a figure column keeps per part. */
-export const FIGURES = ['worst', 'typical', 'bound', 'noiseWorst', 'noiseTypical', 'noiseBound'] as const;
+const FIGURES = ['worst', 'typical', 'bound', 'noiseWorst', 'noiseTypical', 'noiseBound'] as const;
 export type FigureKey = (typeof FIGURES)[number];
 
 /** Per part (catalogue index), each figure's largest value over the grid and where it lies. */

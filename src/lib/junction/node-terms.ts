@@ -25,7 +25,7 @@ export const TERMS = 8;
  * a[from … from + n − 1], over y = ln|a| (s with n − 1; the two-pass form of tolerance.ts),
  * into out[0], out[1]. NaN when a value is zero (no logarithm).
  */
-export function toleranceLimits(a: ArrayLike<number>, from: number, n: number, k: number, out: Float64Array): void {
+function toleranceLimits(a: ArrayLike<number>, from: number, n: number, k: number, out: Float64Array): void {
 	let sum = 0;
 	for (let i = 0; i < n; i++) sum += Math.log(Math.abs(a[from + i]));
 	const mean = sum / n;

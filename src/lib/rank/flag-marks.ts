@@ -28,7 +28,7 @@ export const FLAG_MARKS: Record<FlagCode, string> = {
 };
 
 /** The protected node's own flags (the node screen, a project's node verdicts); noise shares the ranking's code. */
-export const NODE_FLAG_MARKS: Record<NodeFlagCode, string> = {
+const NODE_FLAG_MARKS: Record<NodeFlagCode, string> = {
 	'over-net-current-limit': 'IN>',
 	'over-noise-limit': 'In>',
 	'excursion-over-limit': 'VX>',

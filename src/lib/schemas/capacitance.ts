@@ -32,7 +32,7 @@ export const strayCapacitanceF = quantity('capacitance', 'Stray capacitance').re
 
 export const measurement = z.enum(MEASUREMENTS, { message: `measurement is one of ${MEASUREMENTS.join(', ')}.` });
 
-export const cvPoints = z
+const cvPoints = z
 	.array(z.object({ voltageV: z.number().finite(), capacitanceF: z.number().finite() }).strict(), {
 		message: 'points must be a list of { voltageV, capacitanceF }.'
 	})

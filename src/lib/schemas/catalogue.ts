@@ -8,7 +8,7 @@ const finitePositive = (what: string) =>
 	z.number({ message: `${what} must be a number.` }).finite(`${what} must be finite.`).positive(`${what} must be above zero.`);
 
 /** A model given directly (SPICE card values or a datasheet), in SPICE names and SI units. */
-export const storedModel = z
+const storedModel = z
 	.object({
 		IS: finitePositive('IS'),
 		N: finitePositive('N').max(10, 'N above 10 is not a junction emission coefficient.').optional(),

@@ -10,7 +10,7 @@ import { MAX_RANK_LIMIT, operatingPointSchema, type RankItem } from './rank';
 
 const op = operatingPointSchema.shape;
 /** How many of the leading items may carry their curves. */
-export const MAX_RANK_CURVES = 5;
+const MAX_RANK_CURVES = 5;
 
 export const nodeRankRequestSchema = nodeFields
 	.extend({

@@ -30,9 +30,9 @@ const celsius = (what: string) => finite(what).refine((v) => v > ABS_ZERO_C && v
 const terminal = (what: string) => z.string({ error: `${what} must be "node", "guard" or a rail's name` }).trim().min(1).max(16);
 
 /** An inline junction model: SPICE names, and the material its EG/XTI defaults come from. */
-export const nodeModelSchema = spiceModelSchema.extend({ material: z.enum(MATERIALS).optional() }).strict();
+const nodeModelSchema = spiceModelSchema.extend({ material: z.enum(MATERIALS).optional() }).strict();
 
-export const nodeJunctionSchema = z
+const nodeJunctionSchema = z
 	.object({
 		/** A catalogue part (all its measured samples). */
 		id: z.number().int().positive().max(MAX_ID, 'No part has that id.').optional(),

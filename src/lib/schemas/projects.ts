@@ -14,7 +14,7 @@ const celsius = (what: string) => finite(what).min(-273.15, `${what} is below ab
  * limit is a leakage target, or an allowed error voltage across the source resistance (the
  * ranking's two ways of saying it). Messages name each value as the project screens label it.
  */
-export const requirementSchema = z
+const requirementSchema = z
 	.object({
 		biasV: finite('The bias').min(-10_000, 'The bias must be within 10 kV reverse.').max(100, 'The bias must be at most 100 V forward.'),
 		temperatureC: celsius('The temperature').optional(),
@@ -91,7 +91,7 @@ export const reviewSchema = z
 	});
 
 /** The requirement form's fields, as typed (SI prefixes and units welcome), read by the engine's parser. */
-export const requirementFormSchema = z.object({
+const requirementFormSchema = z.object({
 	bias: quantity('voltage', 'Bias across the junction'),
 	tempLo: optionalQuantity('temperature', 'Temperature, cold end'),
 	tempHi: optionalQuantity('temperature', 'Temperature, hot end'),

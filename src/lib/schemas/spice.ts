@@ -28,7 +28,7 @@ const quantity = (what: string, parse: (text: string) => number) =>
 			}
 		});
 
-export const spiceQuerySchema = z
+const spiceQuerySchema = z
 	.object({
 		sample: z.string().trim().min(1, 'sample must be typical, worst or a sample unit').max(60, 'sample is at most 60 characters').optional(),
 		biasV: quantity('biasV', parseVoltage).optional(),

@@ -88,7 +88,7 @@ export function readQuery<T extends z.ZodType>(url: URL, schema: T): z.infer<T> 
 }
 
 /** JSON request bodies are small; sweeps travel as files with their own, larger limit. */
-export const MAX_JSON_BYTES = 2 * 1024 * 1024;
+const MAX_JSON_BYTES = 2 * 1024 * 1024;
 
 function tooLargeJson(size: number): never {
 	throw new DomainError(413, `The body is ${size} bytes; JSON requests up to ${MAX_JSON_BYTES} bytes are accepted.`);

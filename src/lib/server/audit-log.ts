@@ -6,7 +6,7 @@ import { and, count, desc, eq, gte, inArray, lt, sql, type SQL } from 'drizzle-o
 import { db } from './db';
 import { auditLog, users } from './db/schema';
 
-export const AUDIT_PAGE_SIZE = 50;
+const AUDIT_PAGE_SIZE = 50;
 
 export type AuditFilter = {
 	actorId?: string;

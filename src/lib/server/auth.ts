@@ -12,7 +12,7 @@ import { escapeHtml } from './people';
 import * as people from './people';
 import { returnPath } from '$lib/return-path';
 
-export const SIGN_IN_LINK_MINUTES = 15;
+const SIGN_IN_LINK_MINUTES = 15;
 
 const config: SvelteKitAuthConfig = {
 	adapter: DrizzleAdapter(db, {

@@ -14,7 +14,7 @@ export type CaughtMessage = {
 };
 
 /** Links a person would follow in a message (sign-in, invitations, reviews). */
-export function extractLinks(text: string): string[] {
+function extractLinks(text: string): string[] {
 	return [...new Set(text.match(/https?:\/\/[^\s<>"')]+/g) ?? [])];
 }
 

@@ -14,9 +14,9 @@ import { judgementTerms, resolveJunction } from './node';
 import { filterOf } from './ranking';
 
 /** Items listed unless the request says otherwise. */
-export const DEFAULT_NODE_RANK_LIMIT = 50;
+const DEFAULT_NODE_RANK_LIMIT = 50;
 /** Leading items that carry their curves unless the request says otherwise. */
-export const DEFAULT_RANK_CURVES = 0;
+const DEFAULT_RANK_CURVES = 0;
 
 /** The engine's positions: fixed parts (or inline models) resolved, candidates left open. */
 function rankPositions(req: NodeRankRequestBody, snap: CacheSnapshot): RankPosition[] {
@@ -73,7 +73,7 @@ function curveOf(snap: CacheSnapshot, positions: RankPosition[], req: NodeRankRe
 }
 
 /** Ranks one snapshot (file header). @throws DomainError 422 for a node the engine refuses. */
-export function rankNodeSnapshot(snap: CacheSnapshot, req: NodeRankRequestBody): NodeRankResponse {
+function rankNodeSnapshot(snap: CacheSnapshot, req: NodeRankRequestBody): NodeRankResponse {
 	const positions = rankPositions(req, snap);
 	const view = snap.table.view();
 	const matches = filterOf(req);

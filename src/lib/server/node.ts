@@ -50,7 +50,7 @@ function partPosition(part: CachedPart, terms: { coverage: number; confidence: n
  * Engine positions for a request's junctions; candidate positions take `candidate`.
  * @throws DomainError 422 naming the junction whose part is unknown or whose model is unusable.
  */
-export function resolvePositions(
+function resolvePositions(
 	junctions: NodeJunctionInput[],
 	snap: CacheSnapshot,
 	candidate?: CachedPart,
@@ -86,7 +86,7 @@ export function resolveJunction(j: NodeJunctionInput, i: number, snap: CacheSnap
 }
 
 /** The engine's circuit for a node and its positions. @throws DomainError 422 for what the engine refuses. */
-export function circuitOf(node: NodeShape, positions: ResolvedPosition[]): NodeCircuit {
+function circuitOf(node: NodeShape, positions: ResolvedPosition[]): NodeCircuit {
 	try {
 		return new NodeCircuit(networkOf(node), positions);
 	} catch (e) {
@@ -97,7 +97,7 @@ export function circuitOf(node: NodeShape, positions: ResolvedPosition[]): NodeC
 }
 
 /** A node's figures against its own limits. */
-export function summaryOf(node: NodeShape, circuit: NodeCircuit, gridPoints?: number): NodeSummary {
+function summaryOf(node: NodeShape, circuit: NodeCircuit, gridPoints?: number): NodeSummary {
 	return summarizeNode(circuit, {
 		gridPoints: gridPoints ?? node.gridPoints,
 		...(node.sourceResistanceOhm !== undefined ? { sourceResistanceOhm: node.sourceResistanceOhm } : {}),
@@ -123,7 +123,7 @@ function faultOut(f: FaultAtEnds): FaultOut {
 }
 
 /** The API's answer for a summary (NodeResponse in $lib/schemas/node). */
-export function nodeResponse(s: NodeSummary, positions: ResolvedPosition[], terms: { coverage: number; confidence: number }): NodeResponse {
+function nodeResponse(s: NodeSummary, positions: ResolvedPosition[], terms: { coverage: number; confidence: number }): NodeResponse {
 	const ev = s.evaluation;
 	return {
 		worst: {
@@ -183,7 +183,7 @@ export async function evaluateNode(req: NodeRequest): Promise<NodeResponse> {
 }
 
 /** The figures a saved node gives one part (NodeEntryPrediction in $lib/schemas/node). */
-export function entryPrediction(s: NodeSummary): NodeEntryPrediction {
+function entryPrediction(s: NodeSummary): NodeEntryPrediction {
 	const ev = s.evaluation;
 	return {
 		netCurrentA: { worst: ev.worst.netCurrentA, typical: ev.typical.netCurrentA },

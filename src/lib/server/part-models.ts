@@ -72,7 +72,7 @@ function representativeFits(rows: IvFitRow[]): SampleFit[] {
  * sample_units empty), from the same choice of fits; models and versions stay as they are.
  * Returns how many parts it filled.
  */
-export async function backfillSampleUnits(tx: DbOrTx): Promise<number> {
+async function backfillSampleUnits(tx: DbOrTx): Promise<number> {
 	const stale = await tx
 		.select({ partId: partModels.partId })
 		.from(partModels)
@@ -154,7 +154,7 @@ export async function rebuildPartModel(tx: DbOrTx, partId: number): Promise<numb
  * Rebuilds the parts stored before capacitance was kept: those with a card's CJO, or with
  * active C–V runs, but no part_capacitance row. Returns how many it rebuilt.
  */
-export async function backfillCapacitance(tx: DbOrTx): Promise<number> {
+async function backfillCapacitance(tx: DbOrTx): Promise<number> {
 	const stale = await tx
 		.select({ id: parts.id })
 		.from(parts)

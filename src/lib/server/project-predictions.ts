@@ -38,7 +38,7 @@ export type PartModels = {
 };
 
 /** The record of an engine model: every parameter createModel needs to rebuild it. */
-export function modelRecordOf(m: JunctionModel): ModelRecord {
+function modelRecordOf(m: JunctionModel): ModelRecord {
 	const input: Record<string, number> = {};
 	for (const k of ['IS', 'N', 'RS', 'RSH', 'ISR', 'NR', 'BV', 'IBV', 'NBV', 'EG', 'XTI', 'TNOM', 'CJO', 'VJ', 'M', 'FC', 'shuntFactorPer10K'] as const) {
 		const v = m[k];

@@ -39,7 +39,7 @@ const COLUMNS: Column[] = [
 ];
 
 /** The lines stated above the table: the operating point, the basis, the temperatures each column is taken at, the cautions. */
-export function rankPreamble(op: RankOperatingPoint, res: RankResponse, query: string): string[] {
+function rankPreamble(op: RankOperatingPoint, res: RankResponse, query: string): string[] {
 	return [
 		`Operating point: ${operatingPointWords(op)}`,
 		basisHeading(res.basis, res.coverage, res.confidence),

@@ -58,7 +58,7 @@ export async function events(projectId: number): Promise<ReviewEvent[]> {
 }
 
 /** Who sent the current round for review (the latest submission), if any. */
-export function submitterOf(evts: ReviewEvent[]): string | null {
+function submitterOf(evts: ReviewEvent[]): string | null {
 	return evts.find((e) => e.action === 'submit')?.actorId ?? null;
 }
 
@@ -162,7 +162,7 @@ export async function transition(projectId: number, input: TransitionInput, acto
 	});
 }
 
-export function describeRequirement(r: Requirement): string {
+function describeRequirement(r: Requirement): string {
 	const t = r.temperatureRangeC ? `${formatTemperature(r.temperatureRangeC[0])} to ${formatTemperature(r.temperatureRangeC[1])}` : formatTemperature(r.temperatureC ?? 25);
 	const bits = [`bias ${formatSI(r.biasV, 'V')}`, t];
 	if (r.leakageTargetA !== undefined) bits.push(`leakage target ${formatSI(r.leakageTargetA, 'A')}`);
@@ -345,7 +345,7 @@ export function spiceLibrary(project: projectsDomain.Project, event: ReviewEvent
  * A number as a file should carry it: seven significant figures (as the model exports),
  * written in the shortest form that reads back to them — 1e-14, not 1.0000000000000002e-14.
  */
-export function csvNumber(v: number): string {
+function csvNumber(v: number): string {
 	return Number.isFinite(v) ? String(Number(v.toPrecision(7))) : '';
 }
 

@@ -13,7 +13,7 @@ export type Sheet = { name: string; preamble?: string[]; columns: { label: strin
 /** The preamble's rows: each line in the first cell, then a blank row (none without a preamble). */
 const preambleRows = (sheet: Sheet): string[][] => (sheet.preamble?.length ? [...sheet.preamble.map((l) => [l]), []] : []);
 
-export const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
+const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
 export type SheetFormat = 'csv' | 'xlsx';
 
 const isZip = (b: Uint8Array) => b.length > 3 && b[0] === 0x50 && b[1] === 0x4b && b[2] === 0x03 && b[3] === 0x04;

@@ -18,7 +18,7 @@ export type Filters = { q: string; kind: string; pkg: string; mat: string; life:
 /** Most parts handed to Fuse for the part-number match on one keystroke. */
 export const MAX_CANDIDATES = 400;
 /** Queries shorter than this match by substring and word prefix only. */
-export const FUZZY_MIN = 3;
+const FUZZY_MIN = 3;
 
 // Ranking tiers, best first; fuzzy hits add their Fuse score (0…1) to the last one.
 const EXACT = 0;

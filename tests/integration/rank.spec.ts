@@ -15,8 +15,10 @@ import { createParts, deleteParts, rank, seen, WELL_MEASURED, type TestPart } fr
 const created: number[] = [];
 afterAll(async () => deleteParts(created));
 
-// Invented catalogue: six parts, three samples each (IS spread ×0.6…×1.7), plain SPICE
-// diode models without shunt so that ngspice's diode element is the whole reference.
+// Invented catalogue: seven parts, three samples each (IS spread ×0.6…×1.7), plain SPICE
+// diode models without shunt so that ngspice's diode element is the whole reference. G is a
+// wide-gap emitter whose drop rises with temperature (its drop exceeds EG), so the worst
+// forward drop comes from the hot end there and from the cold end for the others.
 const tag = unique('ng');
 const BASE: { name: string; IS: number; N: number; RS: number; EG?: number; XTI?: number; kind?: TestPart['kind'] }[] = [
 	{ name: 'A', IS: 1e-15, N: 1.0, RS: 0.5 },
@@ -24,13 +26,14 @@ const BASE: { name: string; IS: number; N: number; RS: number; EG?: number; XTI?
 	{ name: 'C', IS: 2e-16, N: 1.0, RS: 4 },
 	{ name: 'D', IS: 5e-13, N: 1.8, RS: 0.2 },
 	{ name: 'E', IS: 1e-9, N: 1.04, RS: 2, EG: 0.69, XTI: 2, kind: 'schottky' },
-	{ name: 'F', IS: 8e-15, N: 1.3, RS: 0 }
+	{ name: 'F', IS: 8e-15, N: 1.3, RS: 0 },
+	{ name: 'G', IS: 1e-24, N: 2, RS: 3, EG: 2.2, XTI: 3, kind: 'led' }
 ];
 const SPREAD = [0.6, 1, 1.7];
 const catalogue: TestPart[] = BASE.map((b) => ({
 	partNumber: `${tag}-${b.name}`,
 	kind: b.kind ?? 'diode',
-	material: b.kind === 'schottky' ? 'metal-semiconductor' : 'silicon',
+	material: b.kind === 'schottky' ? 'metal-semiconductor' : b.kind === 'led' ? 'wide-gap' : 'silicon',
 	samples: SPREAD.map((k) => {
 		const m: StoredModel = { IS: b.IS * k, N: b.N, RS: b.RS, TNOM: 27 };
 		if (b.EG) m.EG = b.EG;
@@ -90,7 +93,8 @@ function ngspiceExpectations(op: RankOperatingPoint): Expected[] {
 		if (op.clampCurrentA) {
 			const vh = e.samples.map((s) => values.get(s.vh!.toLowerCase())!);
 			const vc = e.samples.map((s) => values.get(s.vc!.toLowerCase())!);
-			out.drop = { hot: median(vh), cold: median(vc), worst: Math.max(...vc) };
+			// The worst drop is the larger of both ends over every sample, as a designer reads it.
+			out.drop = { hot: median(vh), cold: median(vc), worst: Math.max(...vc, ...vh) };
 		}
 		return out;
 	});
@@ -112,6 +116,9 @@ describe('ranking against ngspice', () => {
 			const got = await rank({ ...op, q: tag, basis: 'worst' });
 			const expected = ngspiceExpectations(op).sort((a, b) => a.worst - b.worst || a.typical - b.typical);
 			expect(got.items.map((i) => i.partNumber)).toEqual(expected.map((e) => e.partNumber));
+			// Both ends matter: ngspice puts the emitter's larger drop at the hot end, the diodes' at the cold end.
+			const emitter = expected.find((e) => e.partNumber.endsWith('-G'))!.drop;
+			if (emitter && op.temperatureRangeC) expect(emitter.hot).toBeGreaterThan(emitter.cold);
 			for (const [n, e] of expected.entries()) {
 				const item = got.items[n];
 				const tol = e.cubic ? 5e-3 : 2e-5;

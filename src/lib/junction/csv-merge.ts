@@ -195,3 +195,16 @@ export function mergeRun(raw: RawPoints, idx: number[], binWidth: number, q: Qua
 		rejected: sums.rejected
 	};
 }
+
+/** The merge bin from a parser's options (0.5 mV unless given). @throws RangeError when negative. */
+export function mergeBinWidth(options: { binWidthV?: number }): number {
+	const w = options.binWidthV ?? 0.5e-3;
+	if (!(w >= 0)) throw new RangeError('binWidthV must be non-negative');
+	return w;
+}
+
+/** Each temperature's points merged into one run (in the order the temperatures first appear), and the raw points rejected. */
+export function mergeByTemperature(raw: RawPoints, binWidth: number, q: Quantity, issues: DataIssue[], warnings: DataIssue[]): { merged: MergedRun[]; rejected: number } {
+	const merged = groupByTemperature(raw).map((idx) => mergeRun(raw, idx, binWidth, q, issues, warnings));
+	return { merged, rejected: merged.reduce((a, m) => a + m.rejected, 0) };
+}

@@ -268,3 +268,27 @@ export function kelvinGuessWarning(col: Column | undefined, seen: TemperatureRea
 
 /** Role names shared by I–V and C–V files. */
 export const isTemperatureName = (b: string) => /^(t|tj|ta|temp|temperature)$/.test(b) || /temp/.test(b);
+
+/**
+ * The front both sweep readers share: the table, its columns by role, every data row read,
+ * and a warning when temperatures looked like kelvin. Every problem found by then is thrown
+ * together, so a file is refused once with all of its faults.
+ * @throws SweepError listing every problem.
+ */
+export function readSweepRows<C extends { t?: Column }, R>(
+	text: string,
+	placeholders: (index: number) => string,
+	columnsOf: (table: SweepTable, warnings: DataIssue[]) => C,
+	rowsOf: (table: SweepTable, cols: C, issues: DataIssue[], seen: TemperatureReading) => R
+): { table: SweepTable; cols: C; rows: R; warnings: DataIssue[] } {
+	const table = readSweepTable(text, placeholders);
+	const warnings: DataIssue[] = [];
+	const cols = columnsOf(table, warnings);
+	const issues: DataIssue[] = [];
+	const seen: TemperatureReading = { guessedKelvin: false };
+	const rows = rowsOf(table, cols, issues, seen);
+	const guess = kelvinGuessWarning(cols.t, seen);
+	if (guess) warnings.push(guess);
+	if (issues.length) throw new SweepError(issues);
+	return { table, cols, rows, warnings };
+}

@@ -18,8 +18,7 @@ import {
 	findColumns,
 	isBlankRow,
 	isTemperatureName,
-	kelvinGuessWarning,
-	readSweepTable,
+	readSweepRows,
 	readTemperatureCell,
 	rowWidthIssue,
 	VOLTAGE_UNITS,
@@ -28,7 +27,7 @@ import {
 	type SweepTable,
 	type TemperatureReading
 } from './csv-table';
-import { groupByTemperature, mergeRun, type RawPoints } from './csv-merge';
+import { mergeBinWidth, mergeByTemperature, type RawPoints } from './csv-merge';
 
 export { MAX_SWEEP_BYTES, checkSweepSize } from './csv-table';
 
@@ -146,27 +145,19 @@ function checkEnough(raw: RawPoints, table: SweepTable, currentColumn: string) {
  * @throws SweepError listing every problem (row numbers 1-based, header = row 1).
  */
 export function parseSweepCsv(text: string, options: SweepOptions = {}): ParsedSweep {
-	const binWidth = options.binWidthV ?? 0.5e-3;
-	if (!(binWidth >= 0)) throw new RangeError('binWidthV must be non-negative');
-	const table = readSweepTable(text, placeholder);
-	const warnings: DataIssue[] = [];
-	const cols = ivColumns(table, options, warnings);
-	const issues: DataIssue[] = [];
-	const seen: TemperatureReading = { guessedKelvin: false };
-	const raw = readRows(table, cols, options, issues, seen);
-	const guess = kelvinGuessWarning(cols.t, seen);
-	if (guess) warnings.push(guess);
-	if (issues.length) throw new SweepError(issues);
+	const binWidth = mergeBinWidth(options);
+	const { table, cols, rows: raw, warnings } = readSweepRows(
+		text,
+		placeholder,
+		(t, w) => ivColumns(t, options, w),
+		(t, c, issues, seen) => readRows(t, c, options, issues, seen)
+	);
 	checkEnough(raw, table, cols.i.name);
-	const runs: SweepRun[] = [];
-	let rejected = 0;
+	const issues: DataIssue[] = [];
 	const q = { noun: 'current', unit: 'A', column: cols.i.name, voltageColumn: cols.v.name };
-	for (const idx of groupByTemperature(raw)) {
-		const m = mergeRun(raw, idx, binWidth, q, issues, warnings);
-		rejected += m.rejected;
-		runs.push({ temperatureC: m.temperatureC, voltageV: m.voltageV, currentA: m.value, count: m.count, points: m.points, minAbsCurrentA: m.minAbs });
-	}
+	const { merged, rejected } = mergeByTemperature(raw, binWidth, q, issues, warnings);
 	if (issues.length) throw new SweepError(issues);
+	const runs: SweepRun[] = merged.map((m) => ({ temperatureC: m.temperatureC, voltageV: m.voltageV, currentA: m.value, count: m.count, points: m.points, minAbsCurrentA: m.minAbs }));
 	return {
 		runs,
 		rows: raw.count,

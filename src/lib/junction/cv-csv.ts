@@ -18,7 +18,7 @@ import {
 	FREQUENCY_UNITS,
 	isBlankRow,
 	isTemperatureName,
-	kelvinGuessWarning,
+	readSweepRows,
 	readSweepTable,
 	readTemperatureCell,
 	rowWidthIssue,
@@ -29,7 +29,7 @@ import {
 	type SweepTable,
 	type TemperatureReading
 } from './csv-table';
-import { groupByTemperature, mergeRun, type RawPoints } from './csv-merge';
+import { mergeBinWidth, mergeByTemperature, type RawPoints } from './csv-merge';
 import { isVoltageName, type SweepOptions } from './csv';
 
 type Role = 'level' | 'voltage' | 'capacitance' | 'temperature' | 'frequency';
@@ -188,29 +188,22 @@ function signReverseColumn(raw: RawPoints, v: Column<Role>, warnings: DataIssue[
  * @throws SweepError listing every problem (row numbers 1-based, header = row 1).
  */
 export function parseCapacitanceCsv(text: string, options: SweepOptions = {}): ParsedCapacitanceSweep {
-	const binWidth = options.binWidthV ?? 0.5e-3;
-	if (!(binWidth >= 0)) throw new RangeError('binWidthV must be non-negative');
-	const table = readSweepTable(text, placeholder);
-	const warnings: DataIssue[] = [];
-	const cols = cvColumns(table, options, warnings);
+	const binWidth = mergeBinWidth(options);
+	const { table, cols, rows, warnings } = readSweepRows(
+		text,
+		placeholder,
+		(t, w) => cvColumns(t, options, w),
+		(t, c, issues, seen) => readRows(t, c, options, issues, seen)
+	);
+	const { raw, frequencyHz, testLevelV } = rows;
 	const issues: DataIssue[] = [];
-	const seen: TemperatureReading = { guessedKelvin: false };
-	const { raw, frequencyHz, testLevelV } = readRows(table, cols, options, issues, seen);
-	const guess = kelvinGuessWarning(cols.t, seen);
-	if (guess) warnings.push(guess);
-	if (issues.length) throw new SweepError(issues);
 	if (raw.count === 0) throw new SweepError([{ row: table.first + 1, message: 'the file has a header but no data rows' }]);
 	if (raw.count < 3) throw new SweepError([{ message: `only ${raw.count} data point${raw.count === 1 ? '' : 's'}; a sweep needs at least 3` }]);
 	signReverseColumn(raw, cols.v, warnings);
-	const runs: CapacitanceRun[] = [];
-	let rejected = 0;
 	const q = { noun: 'capacitance', unit: 'F', column: cols.c.name, voltageColumn: cols.v.name };
-	for (const idx of groupByTemperature(raw)) {
-		const m = mergeRun(raw, idx, binWidth, q, issues, warnings);
-		rejected += m.rejected;
-		runs.push({ temperatureC: m.temperatureC, voltageV: m.voltageV, capacitanceF: m.value, count: m.count, points: m.points });
-	}
+	const { merged, rejected } = mergeByTemperature(raw, binWidth, q, issues, warnings);
 	if (issues.length) throw new SweepError(issues);
+	const runs: CapacitanceRun[] = merged.map((m) => ({ temperatureC: m.temperatureC, voltageV: m.voltageV, capacitanceF: m.value, count: m.count, points: m.points }));
 	return {
 		runs,
 		rows: raw.count,

@@ -288,75 +288,59 @@ export function screenMessage(message: string): string {
 	return /[.!?]$/.test(out) ? out : `${out}.`;
 }
 
-/**
- * Parses the fields with the engine's unit parser. Returns the operating point when every
- * field is valid, and an error per field otherwise (messages say what was expected).
- */
-export function parseFields(f: OpFields): { op: RankOperatingPoint | null; errors: FieldErrors } {
-	const errors: FieldErrors = {};
+/** Reads one field at a time, keeping the first problem of each field in `errors`. */
+function fieldReader(f: OpFields, errors: FieldErrors) {
+	/** The value read from the text, or undefined with the reader's message as the field's error. */
+	const attempt = <T>(field: FieldName, read: () => T): T | undefined => {
+		try {
+			return read();
+		} catch (e) {
+			errors[field] = (e as Error).message;
+			return undefined;
+		}
+	};
 	const quantity = (field: FieldName, kind: QuantityKind, required = false): number | undefined => {
 		const text = String(f[field]).trim();
 		if (!text) {
 			if (required) errors[field] = 'required';
 			return undefined;
 		}
-		try {
-			// 12 significant figures: "10f" is 10 fA, not the 1.0000000000000002e-14 that 10 × 1e-15 makes.
-			return twelve(parseQuantity(text, kind));
-		} catch (e) {
-			errors[field] = (e as Error).message;
-			return undefined;
-		}
+		// 12 significant figures: "10f" is 10 fA, not the 1.0000000000000002e-14 that 10 × 1e-15 makes.
+		return attempt(field, () => twelve(parseQuantity(text, kind)));
 	};
-	const temperature = (field: 'tLo' | 'tHi'): number | undefined => {
-		const text = f[field].trim();
-		if (!text) return undefined;
-		try {
-			return celsiusOf(text);
-		} catch (e) {
-			errors[field] = (e as Error).message;
-			return undefined;
-		}
-	};
-	const op: Record<string, unknown> = {};
-	op.biasV = quantity('bias', 'voltage', true);
-	// A range typed into one box ("−40…85") is accepted too.
-	let lo = temperature('tLo');
+	return { attempt, quantity };
+}
+
+/** The temperature or range: two boxes, or a range typed into the high one ("−40…85"). */
+function readTemperatures(f: OpFields, read: ReturnType<typeof fieldReader>, errors: FieldErrors, op: Record<string, unknown>): void {
+	const box = (field: 'tLo' | 'tHi') => (f[field].trim() ? read.attempt(field, () => celsiusOf(f[field].trim())) : undefined);
+	let lo = box('tLo');
 	let hi: number | undefined;
 	const rangeInHi = /^(.+?)\s*(?:\.\.|…|\bto\b)\s*(.+)$/.exec(f.tHi.trim());
 	if (rangeInHi && !f.tLo.trim()) {
-		try {
-			lo = celsiusOf(rangeInHi[1]);
-			hi = celsiusOf(rangeInHi[2]);
-		} catch (e) {
-			errors.tHi = (e as Error).message;
-		}
-	} else hi = temperature('tHi');
+		const both = read.attempt('tHi', () => [celsiusOf(rangeInHi[1]), celsiusOf(rangeInHi[2])]);
+		if (both) [lo, hi] = both;
+	} else hi = box('tHi');
 	if (hi === undefined && !errors.tHi) errors.tHi = 'required';
 	if (lo !== undefined && hi !== undefined) {
 		if (lo > hi) errors.tLo = 'the low end must not be above the high end';
 		op.temperatureRangeC = [lo, hi];
 	} else if (hi !== undefined) op.temperatureC = hi;
-	const optional: [FieldName, string, QuantityKind][] = [
-		['clamp', 'clampCurrentA', 'current'],
-		['maxDrop', 'maxForwardDropV', 'voltage'],
-		['margin', 'reverseMarginV', 'voltage'],
-		['source', 'sourceResistanceOhm', 'resistance'],
-		['allowedError', 'allowedErrorV', 'voltage'],
-		['leakage', 'leakageTargetA', 'current'],
-		['maxCap', 'maxCapacitanceF', 'capacitance']
-	];
-	for (const [field, key, kind] of optional) {
-		const v = quantity(field, kind);
-		if (v !== undefined) op[key] = v;
-	}
-	if (f.maxNoise.trim()) {
-		try {
-			op.maxNoiseA_rtHz = parseNoiseDensity(f.maxNoise);
-		} catch (e) {
-			errors.maxNoise = (e as Error).message;
-		}
-	}
+}
+
+/** The optional limits, with the quantity each field holds. */
+const OPTIONAL_LIMITS: [FieldName, string, QuantityKind][] = [
+	['clamp', 'clampCurrentA', 'current'],
+	['maxDrop', 'maxForwardDropV', 'voltage'],
+	['margin', 'reverseMarginV', 'voltage'],
+	['source', 'sourceResistanceOhm', 'resistance'],
+	['allowedError', 'allowedErrorV', 'voltage'],
+	['leakage', 'leakageTargetA', 'current'],
+	['maxCap', 'maxCapacitanceF', 'capacitance']
+];
+
+/** Which parts are listed and how they are ranked: filters, basis and the bound's coverage and confidence. */
+function readSelection(f: OpFields, read: ReturnType<typeof fieldReader>, op: Record<string, unknown>): void {
 	if (f.overRating) op.includeOverRating = true;
 	if (f.kinds.length) op.kinds = [...f.kinds];
 	if (f.lifecycles.length) op.lifecycles = [...f.lifecycles];
@@ -369,13 +353,30 @@ export function parseFields(f: OpFields): { op: RankOperatingPoint | null; error
 	if (f.basis !== DEFAULT_BASIS) op.basis = f.basis;
 	for (const field of ['coverage', 'confidence'] as const) {
 		const text = f[field].trim();
-		if (!text) continue;
-		try {
-			op[field] = parseFraction(text);
-		} catch (e) {
-			errors[field] = (e as Error).message;
-		}
+		const v = text ? read.attempt(field, () => parseFraction(text)) : undefined;
+		if (v !== undefined) op[field] = v;
 	}
+}
+
+/**
+ * Parses the fields with the engine's unit parser. Returns the operating point when every
+ * field is valid, and an error per field otherwise (messages say what was expected).
+ */
+export function parseFields(f: OpFields): { op: RankOperatingPoint | null; errors: FieldErrors } {
+	const errors: FieldErrors = {};
+	const read = fieldReader(f, errors);
+	const op: Record<string, unknown> = {};
+	op.biasV = read.quantity('bias', 'voltage', true);
+	readTemperatures(f, read, errors, op);
+	for (const [field, key, kind] of OPTIONAL_LIMITS) {
+		const v = read.quantity(field, kind);
+		if (v !== undefined) op[key] = v;
+	}
+	if (f.maxNoise.trim()) {
+		const v = read.attempt('maxNoise', () => parseNoiseDensity(f.maxNoise));
+		if (v !== undefined) op.maxNoiseA_rtHz = v;
+	}
+	readSelection(f, read, op);
 	if (Object.keys(errors).length) return { op: null, errors };
 	const checked = operatingPointSchema.safeParse(op);
 	if (!checked.success) {

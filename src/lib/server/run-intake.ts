@@ -21,9 +21,8 @@ import {
 import { egFor, engineMaterial, toStored } from '$lib/catalogue/models';
 import type { Measurement, StoredCvFit } from '$lib/catalogue/capacitance';
 import type { Material } from '$lib/catalogue/vocabulary';
-import { DomainError } from './errors';
+import { DomainError, type Issue } from './errors';
 import type { FitInterval, FitRange, StoredModel, SweepDirection } from './db/schema';
-import type { Issue } from './errors';
 
 /** Largest sweep upload accepted [bytes]: bench files are a few kilobytes to a few hundred. */
 export const UPLOAD_LIMIT_BYTES = 2 * 1024 * 1024;

@@ -4,11 +4,10 @@
 import { and, eq } from 'drizzle-orm';
 import type { Material } from '$lib/catalogue/vocabulary';
 import type { Measurement } from '$lib/catalogue/capacitance';
-import { DomainError } from './errors';
+import { DomainError, type Issue } from './errors';
 import { recordAudit } from './audit';
-import { db } from './db';
+import { db, type Tx } from './db';
 import { fits, parts, runs, samples, type SweepDirection } from './db/schema';
-import type { Issue } from './errors';
 import { rebuildPartModel } from './part-models';
 import { uniqueViolation } from './catalogue';
 import { prepare, type PreparedRun, type RunSettings, type SweepSource } from './run-intake';
@@ -75,6 +74,19 @@ function rowsOf(p: PreparedRun) {
 	};
 }
 
+/** The part's sample with this unit label, created (with its audit row) when it is new. */
+async function sampleFor(tx: Tx, partId: number, unit: string, actor: { id: string } | null) {
+	const find = async () => (await tx.select().from(samples).where(and(eq(samples.partId, partId), eq(samples.unit, unit))))[0];
+	const found = await find();
+	if (found) return found;
+	// Two files of one new sample arrive together in a campaign: the first creates it,
+	// the other waits for that and uses it.
+	const [created] = await tx.insert(samples).values({ partId, unit }).onConflictDoNothing({ target: [samples.partId, samples.unit] }).returning();
+	if (!created) return (await find())!;
+	await recordAudit(tx, { actorId: actor?.id ?? null, action: 'sample.create', entity: 'sample', entityId: created.id, detail: { partId, unit } });
+	return created;
+}
+
 /**
  * Ingests one run for a part: the same path for uploads, API calls and the demo seed.
  * A refused run writes nothing. @throws DomainError 404/409/413/422.
@@ -108,14 +120,7 @@ export async function ingest(actor: { id: string } | null, input: IngestInput): 
 	const rows = rowsOf(prepared);
 	try {
 		return await db.transaction(async (tx) => {
-			let [sample] = await tx.select().from(samples).where(and(eq(samples.partId, part.id), eq(samples.unit, unit)));
-			if (!sample) {
-				// Two files of one new sample arrive together in a campaign: the first creates it,
-				// the other waits for that and uses it.
-				[sample] = await tx.insert(samples).values({ partId: part.id, unit }).onConflictDoNothing({ target: [samples.partId, samples.unit] }).returning();
-				if (sample) await recordAudit(tx, { actorId: actor?.id ?? null, action: 'sample.create', entity: 'sample', entityId: sample.id, detail: { partId: part.id, unit } });
-				else [sample] = await tx.select().from(samples).where(and(eq(samples.partId, part.id), eq(samples.unit, unit)));
-			}
+			const sample = await sampleFor(tx, part.id, unit, actor);
 			const [run] = await tx
 				.insert(runs)
 				.values({

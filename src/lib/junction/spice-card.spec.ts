@@ -3,9 +3,10 @@ import fc from 'fast-check';
 import { emitModelCard, parseModelCard, parseModelCards, parseSpiceNumber } from './spice-card';
 import { createModel } from './model';
 import { expectRelClose } from './test-helpers';
+import { runNgspiceOp } from '../../../tests/reference/ngspice';
 
 describe('SPICE numbers', () => {
-	// Scale factors as in the SPICE2/3 user guides and the ngspice manual (§2.3, from memory).
+	// Scale factors as in the SPICE2/3 user guides and the ngspice manual (§2.3); the next test asks ngspice itself.
 	it.each([
 		['1e-14', 1e-14],
 		['10p', 1e-11],
@@ -25,6 +26,14 @@ describe('SPICE numbers', () => {
 
 	it('rejects non-numbers', () => {
 		expect(() => parseSpiceNumber('abc')).toThrow(/expected a SPICE number/);
+	});
+
+	it('reads every scale factor as Debian ngspice reads it', () => {
+		// Each value as a current source into 1 Ω: ngspice prints the voltage, i.e. the value it read.
+		const texts = ['10p', '10pA', '2.2MEG', '3M', '3m', '4.7k', '1u', '5n', '7f', '1g', '2t', '1mil'];
+		const netlist = texts.flatMap((t, k) => [`i${k} 0 n${k} dc ${t}`, `r${k} n${k} 0 1`]).join('\n');
+		const got = runNgspiceOp({ netlist, prints: texts.map((_, k) => `v(n${k})`) });
+		texts.forEach((t, k) => expectRelClose(parseSpiceNumber(t), got.get(`v(n${k})`)!, 1e-12));
 	});
 });
 

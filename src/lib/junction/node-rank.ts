@@ -38,7 +38,7 @@ import {
 	type FlagCode
 } from './rank-flags';
 import { GROUP_FAILS_LIMIT, GROUP_UNLISTED, orderGroups, RANK_GROUPS, rankGroup } from './rank-order';
-import type { BoundTerms, CatalogueView, Evidence } from './rank-types';
+import type { BoundTerms, CatalogueView, Evidence, RankResult } from './rank-types';
 import { scaleModel } from './temperature';
 
 export type { RankPosition };
@@ -70,16 +70,8 @@ export interface NodeRankRequest {
 	limit?: number;
 }
 
-export interface NodeRankResult {
-	order: Int32Array;
-	/** Parts in the full order, and of those how many meet every limit. */
-	ranked: number;
-	meetingLimits: number;
-	/** Parts left out for their reverse rating. */
-	excluded: Int32Array;
-	basis: RankBasis;
-	coverage: number;
-	confidence: number;
+/** The catalogue ranking's order and counts (see RankResult), with the node's own figures. */
+export interface NodeRankResult extends Pick<RankResult, 'order' | 'ranked' | 'meetingLimits' | 'excluded' | 'basis' | 'coverage' | 'confidence'> {
 	by: NodeRankBy;
 	figures: GridFigures;
 	/** Worst-sample fault excursion [V] at [cold, hot] per part (NaN: not clamped), or null without a fault current. */

@@ -289,21 +289,7 @@ export function applyEdit(f: NodeFields, edit: string | null): NodeFields {
 
 /** The fields showing a saved node (fixed positions by their part number, as `partNumberOf` gives it). */
 export function fieldsFromNode(
-	n: {
-		rails: Record<string, number>;
-		guard?: { offsetV: number };
-		signalRangeV: [number, number];
-		temperatureC?: number;
-		temperatureRangeC?: [number, number];
-		sourceResistanceOhm?: number;
-		faultCurrentA?: number;
-		maxNetCurrentA?: number;
-		allowedErrorV?: number;
-		maxNoiseA_rtHz?: number;
-		maxExcursionV?: number;
-		basis?: RankBasis;
-		junctions: { anode: string; cathode: string; id?: number; label?: string; candidate?: boolean }[];
-	},
+	n: Omit<ParsedNode, 'junctions'> & { junctions: { anode: string; cathode: string; id?: number; label?: string; candidate?: boolean }[] },
 	partNumberOf: (id: number) => string
 ): NodeFields {
 	const opt = (v: number | undefined, unit: string) => (v === undefined ? '' : formatSI(v, unit, { digits: 6 }));

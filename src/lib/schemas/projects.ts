@@ -72,7 +72,7 @@ export const shortlistAddFormSchema = z.object({
 
 /** The project screen's remove button: the part's id, from a hidden field. */
 export const shortlistRemoveFormSchema = z.object({
-	partId: z.coerce.number().int('No part named.').positive('No part named.').max(MAX_ID, 'No part named.')
+	partId: z.coerce.number({ message: 'No part named.' }).int('No part named.').positive('No part named.').max(MAX_ID, 'No part named.')
 });
 
 export const shortlistRemoveSchema = z.object({ junctionId: z.number().int().positive().max(MAX_ID, 'No part has that id.') }).strict();

@@ -170,11 +170,6 @@ export function flagPass(
 	const checkCap = maxCap !== Infinity;
 	const n = flags.length;
 	counts.fill(0);
-	// Neighbouring parts mostly share a group: counted in a run held in a local, not by an
-	// increment in memory per part (each would wait for the one before).
-	let runGroup = GROUP_UNLISTED;
-	let run = 0;
-	let excluded = 0;
 	for (let p = 0; p < n; p++) {
 		let typical: number;
 		let worst: number;
@@ -204,18 +199,13 @@ export function flagPass(
 		flags[p] = f;
 		let b = GROUP_UNLISTED;
 		if (include && include[p] === 0) b = GROUP_UNLISTED;
-		else if (over && !keepOverRating) excluded++;
+		else if (over && !keepOverRating) counts[excludedAt]++;
 		else {
 			b = ((f & LIMIT_BITS) !== 0 ? GROUP_FAILS_LIMIT : 0) | (given[p] === 1 ? GROUP_GIVEN : 0) | (hasValue ? 0 : GROUP_NO_VALUE);
-			if (b === runGroup) run++;
-			else {
-				if (runGroup !== GROUP_UNLISTED) counts[runGroup] += run;
-				runGroup = b;
-				run = 1;
-			}
+			counts[b]++;
 		}
 		bucket[p] = b;
 	}
-	if (runGroup !== GROUP_UNLISTED) counts[runGroup] += run;
-	counts[excludedAt] = excluded;
+	// Nothing after the loop: code the first (on-stack-replaced) run never reached would make
+	// V8 drop the optimised loop at its end on every call.
 }

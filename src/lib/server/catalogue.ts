@@ -1,5 +1,6 @@
 // The parts catalogue: creating and changing parts, samples and given models; listings.
 import { and, asc, desc, eq, gt, ilike, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { partNames } from '$lib/catalogue/part-names';
 import { readModelCard } from '$lib/catalogue/model-card';
 import { DEFAULT_MATERIAL, type JunctionKind, type Material } from '$lib/catalogue/vocabulary';
 import { partFlags, toEngine } from '$lib/catalogue/models';
@@ -220,11 +221,7 @@ function presentCapacitance(c: PartCapacitanceRow | null) {
 /** The API's representation of a part (SI units, °C). */
 export function present(part: Part, model: PartModelRow | null, capacitance: PartCapacitanceRow | null = null) {
 	return {
-		id: part.id,
-		partNumber: part.partNumber,
-		maker: part.maker,
-		kind: part.kind,
-		package: part.package,
+		...partNames(part),
 		material: part.material,
 		admitsLight: part.admitsLight,
 		pins: { anode: part.anodePins, cathode: part.cathodePins },

@@ -16,6 +16,7 @@
  */
 import { CatalogueTable, SI_2019, type OperatingPoint, type RankResult, type RankedPart } from '$lib/junction';
 import type { RankFlag, RankItem, RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
+import { listedPart } from '$lib/catalogue/part-names';
 import { modelCache, type CacheSnapshot, type CachedPart, type ModelCache } from './model-cache';
 
 /** A rank item for one part, with the model version the numbers came from. */
@@ -47,14 +48,7 @@ import { leakageBudget } from '$lib/projects/shortlist';
 
 function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit<RankItem, 'rank'> {
 	return {
-		id: part.id,
-		partNumber: part.partNumber,
-		maker: part.maker,
-		kind: part.kind,
-		package: part.package,
-		lifecycle: part.lifecycle,
-		ratedReverseV: part.ratedReverseV,
-		ratedForwardA: part.ratedForwardA,
+		...listedPart(part),
 		samples: row.samples,
 		evidence: row.evidence,
 		leakageA: row.leakageA,
@@ -76,11 +70,6 @@ function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit
 function withCapacitanceFlag(row: RankedPart, part: CachedPart): RankFlag[] {
 	const flags = row.flags as RankFlag[];
 	return row.capacitanceF !== undefined && part.capacitanceSource === 'given' ? [...flags, 'capacitance-from-card'] : flags;
-}
-
-/** Whether a part passes the catalogue filters (kinds, lifecycles, packages, text). */
-export function matchesFilters(part: CachedPart, op: RankOperatingPoint): boolean {
-	return filterOf(op)(part);
 }
 
 /** The catalogue filters as one predicate, with the request's words and packages prepared once. */

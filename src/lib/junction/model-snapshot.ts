@@ -70,7 +70,7 @@ const align8 = (n: number) => (n + 7) & ~7;
 const orNaN = (v: number | undefined | null) => (v === undefined || v === null ? NaN : v);
 
 /** Encodes parts (in the order given) into one snapshot buffer. */
-export function encodeSnapshot(snapshot: ModelSnapshot): Uint8Array {
+export function encodeSnapshot(snapshot: ModelSnapshot): Uint8Array<ArrayBuffer> {
 	const { parts } = snapshot;
 	const n = parts.length;
 	let m = 0;
@@ -226,7 +226,7 @@ function sections(n: number, m: number, t: number, k: number, textBytes: number)
 	return { offsets, total: at };
 }
 
-function views(buffer: ArrayBuffer, { offsets: o }: Layout, n: number, m: number, t: number, k: number, textBytes: number, base = 0) {
+function views(buffer: ArrayBufferLike, { offsets: o }: Layout, n: number, m: number, t: number, k: number, textBytes: number, base = 0) {
 	const columns = new Int32Array(buffer, base + o[4], 4 * n);
 	return {
 		sampleParams: new Float64Array(buffer, base + o[0], m * SAMPLE_KEYS.length),

@@ -57,6 +57,11 @@ export async function api<T = any>(
 		body = JSON.stringify(opts.json);
 	}
 	const res = await fetch(APP_URL + path, { method, headers, body, redirect: 'manual' });
+	// An event stream never ends by itself: its status and headers are the answer.
+	if (res.headers.get('content-type')?.startsWith('text/event-stream')) {
+		await res.body?.cancel();
+		return { status: res.status, body: null as T, headers: res.headers };
+	}
 	const text = await res.text();
 	let parsed: unknown = text;
 	try {

@@ -10,6 +10,9 @@
  * database is still down at that moment. So the cache checks that it can hear: every few
  * seconds it sends itself a ping on the channel, and when a ping it sent does not come back
  * it opens a new listening connection and re-reads everything.
+ *
+ * The same connection hears PROJECT_CHANNEL for the live updates of open screens, so one
+ * connection per process carries both and the hearing check covers both.
  */
 import { randomBytes } from 'node:crypto';
 import type { Sql } from 'postgres';
@@ -17,7 +20,7 @@ import { CatalogueTable, createModel, type Evidence, type JunctionModel, type Pa
 import { engineMaterial } from '$lib/catalogue/models';
 import type { Material } from '$lib/catalogue/vocabulary';
 import type { RankKind, RankLifecycle, SpiceModel } from '$lib/schemas/rank';
-import { MODEL_CHANNEL } from './model-events';
+import { MODEL_CHANNEL, PROJECT_CHANNEL } from './model-events';
 
 /** What the ranking needs to know about a part besides its models. */
 export type CachedPart = {
@@ -176,6 +179,7 @@ export class ModelCache {
 	private rebuildTimer: ReturnType<typeof setTimeout> | null = null;
 	private pendingIds = new Set<number>();
 	private unlisten: (() => Promise<void>) | null = null;
+	private unlistenProjects: (() => Promise<void>) | null = null;
 	private listenSql: Sql | null = null;
 	private hearingTimer: ReturnType<typeof setInterval> | null = null;
 	private readonly pingPrefix = `ping:${randomBytes(6).toString('hex')}:`;
@@ -184,7 +188,10 @@ export class ModelCache {
 	/** Set when a re-read failed: the next hearing check starts over. */
 	private stale = false;
 	private checking = false;
-	private listeners = new Set<() => void>();
+	/** Called after every rebuild with the parts it re-read (null: all of them). */
+	private listeners = new Set<(partIds: number[] | null) => void>();
+	/** Called with each changed project's id (null: any may have changed while not listening). */
+	private projectListeners = new Set<(projectId: number | null) => void>();
 	/** Bumped on every rebuild; tests wait on it. */
 	generation = 0;
 	/** Parts whose models could not be used, with the reason. */
@@ -235,6 +242,23 @@ export class ModelCache {
 			}
 		);
 		this.unlisten = meta.unlisten;
+		let firstProjects = true;
+		const projects = await this.listenSql.listen(
+			PROJECT_CHANNEL,
+			(payload) => {
+				const id = Number(payload);
+				if (Number.isInteger(id) && id > 0) this.projectChanged(id);
+			},
+			() => {
+				if (firstProjects) firstProjects = false;
+				else this.projectChanged(null);
+			}
+		);
+		this.unlistenProjects = projects.unlisten;
+	}
+
+	private projectChanged(id: number | null): void {
+		for (const l of [...this.projectListeners]) l(id);
 	}
 
 	/**
@@ -248,10 +272,12 @@ export class ModelCache {
 			if (this.pingSent > this.pingHeard || this.stale) {
 				const old = this.listenSql;
 				this.unlisten = null;
+				this.unlistenProjects = null;
 				this.listenSql = null;
 				if (old && old !== this.sql) await old.end({ timeout: 0 }).catch(() => {});
 				await this.listen();
 				await this.reloadAll();
+				this.projectChanged(null);
 				this.stale = false;
 				this.pingHeard = this.pingSent;
 			}
@@ -283,7 +309,7 @@ export class ModelCache {
 			if (part) next.set(part.id, part);
 		}
 		this.byId = next;
-		this.rebuild();
+		this.rebuild(null);
 	}
 
 	private tryBuild(row: Row): CachedPart | null {
@@ -333,14 +359,34 @@ export class ModelCache {
 			else this.byId.delete(row.id);
 		}
 		for (const id of ids) if (!found.has(id)) this.byId.delete(id);
-		this.rebuild();
+		this.rebuild(ids);
 	}
 
-	private rebuild(): void {
+	private rebuild(partIds: number[] | null): void {
 		const parts = [...this.byId.values()].sort((a, b) => a.id - b.id);
 		this.snap = new CacheSnapshot(parts);
 		this.generation++;
-		for (const l of [...this.listeners]) l();
+		for (const l of [...this.listeners]) l(partIds);
+	}
+
+	/**
+	 * Calls `listener` after every rebuild with the ids of the parts re-read (null after a
+	 * full re-read: any part may have changed). Returns the function that stops it.
+	 */
+	onRebuild(listener: (partIds: number[] | null) => void): () => void {
+		this.listeners.add(listener);
+		return () => this.listeners.delete(listener);
+	}
+
+	/** Calls `listener` with the id of every project whose change has committed. */
+	onProjectChange(listener: (projectId: number | null) => void): () => void {
+		this.projectListeners.add(listener);
+		return () => this.projectListeners.delete(listener);
+	}
+
+	/** How many rebuild and project listeners are attached (clean-up checks). */
+	get listenerCount(): number {
+		return this.listeners.size + this.projectListeners.size;
 	}
 
 	/** Resolves after the next rebuild, or rejects after `ms`. */
@@ -365,7 +411,9 @@ export class ModelCache {
 		if (this.hearingTimer) clearInterval(this.hearingTimer);
 		this.hearingTimer = null;
 		await this.unlisten?.();
+		await this.unlistenProjects?.();
 		this.unlisten = null;
+		this.unlistenProjects = null;
 		if (this.listenSql && this.listenSql !== this.sql) await this.listenSql.end({ timeout: 1 });
 		this.listenSql = null;
 	}

@@ -4,8 +4,12 @@
  * (POST /api/v1/rank) and the browser (ranking over the model snapshot) list the same
  * items from the same CatalogueTable.
  */
-import { SI_2019, type CatalogueTable, type OperatingPoint, type RankResult, type RankedPart } from '$lib/junction';
-import { leakageBudget } from '$lib/projects/shortlist';
+// Direct module imports (not the engine's index), so the ranking worker carries only what it runs.
+import { SI_2019 } from '$lib/junction/constants';
+import type { CatalogueTable } from '$lib/junction/catalogue-table';
+import type { OperatingPoint } from '$lib/junction/operating-point';
+import type { RankResult, RankedPart } from '$lib/junction/rank-types';
+import { leakageBudget } from '$lib/projects/leakage-budget';
 import type { RankFlag, RankItem, RankKind, RankLifecycle, RankOperatingPoint, RankResponse, SpiceModel } from '$lib/schemas/rank';
 
 /** What the ranked list needs to know about a part besides its models (the server's cache holds more). */

@@ -15,3 +15,6 @@ export type FromWorker =
 
 /** Where the worker fetches the snapshot (the page's origin). */
 export const SNAPSHOT_PATH = '/api/v1/rank/snapshot';
+
+/** At most this many ids in `?parts=` (beyond it, the whole snapshot is the cheaper answer). */
+export const MAX_SNAPSHOT_PART_IDS = 2000;

@@ -5,8 +5,7 @@
  * revalidates it by ETag); after a change only the changed parts are fetched.
  */
 import { SnapshotCatalogue } from './snapshot-catalogue';
-import { MAX_SNAPSHOT_PART_IDS } from '$lib/schemas/rank-snapshot';
-import { SNAPSHOT_PATH, type FromWorker, type ToWorker } from './rank-worker-protocol';
+import { MAX_SNAPSHOT_PART_IDS, SNAPSHOT_PATH, type FromWorker, type ToWorker } from './rank-worker-protocol';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 const catalogue = new SnapshotCatalogue();

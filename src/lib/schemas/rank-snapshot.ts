@@ -1,8 +1,6 @@
 /** GET /api/v1/rank/snapshot: `?since=<version>` or `?parts=<id,id,…>` (not both) ask for only some parts. */
 import { z } from 'zod';
-
-/** At most this many ids in `parts` (beyond it, the whole snapshot is the cheaper answer). */
-export const MAX_SNAPSHOT_PART_IDS = 2000;
+import { MAX_SNAPSHOT_PART_IDS } from '$lib/rank/rank-worker-protocol';
 
 export const snapshotQuerySchema = z
 	.object({

@@ -9,10 +9,12 @@ import { runJunctionBenchmarks } from './junction.bench';
 import { runLoadBenchmarks } from './load';
 import { runRankingBenchmarks } from './ranking.bench';
 import { runSearchBenchmarks } from './search.bench';
+import { runSnapshotBenchmarks } from './snapshot.bench';
 import { writeReport } from './results';
 
 await runJunctionBenchmarks();
 await runSearchBenchmarks();
+await runSnapshotBenchmarks();
 if (process.env.DATABASE_URL) {
 	await runRankingBenchmarks();
 	await runBrowserBenchmarks();

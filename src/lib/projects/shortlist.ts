@@ -47,16 +47,9 @@ export type Entry = {
 	verdict: Verdict | null;
 };
 
-/**
- * The worst leakage a requirement allows [A]: the leakage target, or the allowed error
- * voltage across the source resistance, I = V / R (1 mV across 1 GΩ allows 1 pA); null
- * when neither is stated.
- */
-export function leakageBudget(r: Limits): number | null {
-	if (r.leakageTargetA !== undefined) return r.leakageTargetA;
-	if (r.allowedErrorV !== undefined && r.sourceResistanceOhm !== undefined && r.sourceResistanceOhm > 0) return r.allowedErrorV / r.sourceResistanceOhm;
-	return null;
-}
+// The leakage budget is its own small module, so the browser's ranking worker can use it without the schemas.
+export { leakageBudget } from './leakage-budget';
+import { leakageBudget } from './leakage-budget';
 
 /** Compares one prediction (and the part's figures in the requirement's node) with the requirement's limits. */
 export function verdict(p: Prediction, r: Limits, node?: NodeEntryPrediction | null): Verdict {

@@ -14,80 +14,21 @@
  * are the engine's. The bias is across the junction itself, so the source resistance is
  * not put in series: it only turns leakage into an error voltage.
  */
-import { CatalogueTable, SI_2019, type OperatingPoint, type RankResult, type RankedPart } from '$lib/junction';
-import type { RankFlag, RankItem, RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
-import { listedPart } from '$lib/catalogue/part-names';
+import { CatalogueTable, SI_2019 } from '$lib/junction';
+import type { RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
+import { engineOperatingPoint, filterOf, rankListed, toItem } from '$lib/rank/rank-items';
 import { modelCache, type CacheSnapshot, type CachedPart, type ModelCache } from './model-cache';
 
 /** A rank item for one part, with the model version the numbers came from. */
 export type { Prediction } from '$lib/projects/shortlist';
 import type { Prediction } from '$lib/projects/shortlist';
 
-/** The engine's operating point (the source resistance is not a series element here). */
-export function engineOperatingPoint(op: RankOperatingPoint): OperatingPoint {
-	const budget = leakageBudget(op);
-	return {
-		biasV: op.biasV,
-		...(op.temperatureRangeC ? { temperatureRangeC: op.temperatureRangeC } : { temperatureC: op.temperatureC }),
-		...(op.clampCurrentA !== undefined ? { clampCurrentA: op.clampCurrentA } : {}),
-		...(op.maxForwardDropV !== undefined ? { maxForwardDropV: op.maxForwardDropV } : {}),
-		...(budget !== null ? { maxLeakageA: budget } : {}),
-		...(op.maxCapacitanceF !== undefined ? { maxCapacitanceF: op.maxCapacitanceF } : {}),
-		...(op.maxNoiseA_rtHz !== undefined ? { maxNoiseA_rtHz: op.maxNoiseA_rtHz } : {}),
-		reverseMarginV: op.reverseMarginV ?? 0,
-		includeOverRating: op.includeOverRating ?? false,
-		...(op.basis !== undefined ? { basis: op.basis } : {}),
-		...(op.coverage !== undefined ? { coverage: op.coverage } : {}),
-		...(op.confidence !== undefined ? { confidence: op.confidence } : {})
-	};
-}
-
 /** Worst leakage the operating point allows [A]: given directly, or error voltage ÷ source resistance. */
 export { leakageBudget } from '$lib/projects/shortlist';
-import { leakageBudget } from '$lib/projects/shortlist';
 
-function toItem(part: CachedPart, row: RankedPart, op: RankOperatingPoint): Omit<RankItem, 'rank'> {
-	return {
-		...listedPart(part),
-		samples: row.samples,
-		evidence: row.evidence,
-		leakageA: row.leakageA,
-		bound: row.bound,
-		...(row.sampleLeakageA ? { sampleLeakage: row.sampleLeakageA.map((leakageA, i) => ({ unit: part.sampleUnits[i] ?? `#${i + 1}`, leakageA })) } : {}),
-		forwardDropV: row.forwardDropV ? { cold: row.forwardDropV.cold, hot: row.forwardDropV.hot, worst: row.forwardDropV.worst } : null,
-		reverseMarginV: part.ratedReverseV === null ? null : part.ratedReverseV - Math.max(0, -op.biasV),
-		capacitanceF: row.capacitanceF ?? null,
-		noiseA_rtHz: row.noiseA_rtHz,
-		errorVoltageV: op.sourceResistanceOhm !== undefined ? row.leakageA.worst * op.sourceResistanceOhm : null,
-		// The engine's flag codes are the API's (RANK_FLAGS lists the same codes); where the
-		// capacitance came from is the catalogue's to say.
-		flags: withCapacitanceFlag(row, part),
-		meetsLimits: row.meetsLimits
-	};
-}
+// Filters, the engine operating point and the items are shared with the browser's ranking over the snapshot.
+export { engineOperatingPoint, filterOf } from '$lib/rank/rank-items';
 
-/** The row's flags, with 'capacitance-from-card' when the capacitance shown is a given card's. */
-function withCapacitanceFlag(row: RankedPart, part: CachedPart): RankFlag[] {
-	const flags = row.flags as RankFlag[];
-	return row.capacitanceF !== undefined && part.capacitanceSource === 'given' ? [...flags, 'capacitance-from-card'] : flags;
-}
-
-/** The catalogue filters as one predicate, with the request's words and packages prepared once. */
-export function filterOf(op: Pick<RankOperatingPoint, 'kinds' | 'lifecycles' | 'packages' | 'q'>): (part: CachedPart) => boolean {
-	const kinds = op.kinds?.length ? new Set<string>(op.kinds) : null;
-	const lifecycles = op.lifecycles?.length ? new Set<string>(op.lifecycles) : null;
-	const packages = op.packages?.length ? new Set(op.packages.map((p) => p.toLowerCase())) : null;
-	const words = op.q ? op.q.toLowerCase().split(/\s+/).filter(Boolean) : [];
-	return (part) =>
-		(!kinds || kinds.has(part.kind)) &&
-		(!lifecycles || lifecycles.has(part.lifecycle)) &&
-		(!packages || packages.has(part.package.toLowerCase())) &&
-		words.every((w) => part.search.includes(w));
-}
-
-function hasFilters(op: RankOperatingPoint): boolean {
-	return Boolean(op.kinds?.length || op.lifecycles?.length || op.packages?.length || op.q);
-}
 
 /** Ranks one snapshot (exported for benchmarks and tests that hold their own cache). */
 export function rankSnapshot(
@@ -97,38 +38,7 @@ export function rankSnapshot(
 	withModels = 0,
 	withSamples = false
 ): RankResponse {
-	const eop = engineOperatingPoint(op);
-	let include: Uint8Array | undefined;
-	if (hasFilters(op)) {
-		include = new Uint8Array(snap.parts.length);
-		const matches = filterOf(op);
-		for (let p = 0; p < snap.parts.length; p++) if (matches(snap.parts[p])) include[p] = 1;
-	}
-	// Only the first `limit` parts are listed, so the engine selects those instead of ordering all;
-	// the result is read at once below, so the table's own buffers can hold it (reuse).
-	const result: RankResult = snap.table.rank(eop, SI_2019, { limit, reuse: true, ...(include ? { include } : {}) });
-	const order = result.order;
-	const excludedOverRating = result.excluded.length;
-	const evaluated = result.ranked + excludedOverRating;
-	const budget = leakageBudget(op);
-	const rows = snap.table.rows(result, eop, 0, limit, SI_2019, { withSamples });
-	const items: RankItem[] = rows.map((row, i) => {
-		const part = snap.parts[order[i]];
-		const item: RankItem = { rank: i + 1, ...toItem(part, row, op) };
-		if (i < withModels) item.model = { ...part.typical, material: part.material };
-		return item;
-	});
-	return {
-		items,
-		evaluated,
-		excludedOverRating,
-		hotC: result.hotC,
-		coldC: result.coldC,
-		leakageBudgetA: budget,
-		basis: result.basis,
-		coverage: result.coverage,
-		confidence: result.confidence
-	};
+	return rankListed(snap.table, snap.parts, op, limit, withModels, withSamples);
 }
 
 /** Ranks the whole catalogue at an operating point (order in the file header). */

@@ -1,13 +1,16 @@
 /**
  * The ranking screen's live state: the sentence's fields, the last ranking, and the
- * requests that keep it current. A change waits ~150 ms for more typing, aborts any
- * request still in flight, asks POST /api/v1/rank, and writes the operating point to
- * the address bar so the ranking can be bookmarked.
+ * rankings that keep it current, written to the address bar so they can be bookmarked.
+ *
+ * Once the ranking worker holds the model snapshot (browser-ranker.ts), a change is ranked
+ * there at once, one ranking at a time (the latest fields win), and its result is shown at
+ * most once per animation frame. Until then, or without it (a catalogue too large for the
+ * snapshot, a worker that failed), a change waits ~150 ms for more typing, aborts any
+ * request still in flight and asks POST /api/v1/rank.
  *
  * `updates` counts rankings drawn: it is bumped in the same synchronous step that stores
- * the result, so Svelte writes the counter and the ranked list (rows, counts, flag legend)
- * to the DOM in one flush — when `data-updates` shows n, the list for ranking n is in the
- * document. The curves below the list follow within the next animation frame.
+ * the result, so Svelte writes the counter, the ranked list (rows, counts, flag legend) and
+ * the curves to the DOM in one flush — when `data-updates` shows n, ranking n is drawn.
  */
 import { replaceState } from '$app/navigation';
 import {
@@ -18,10 +21,13 @@ import {
 	type OpFields
 } from '$lib/rank/operating-point-url';
 import type { RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
+import type { BrowserRanker } from '$lib/rank/browser-ranker';
 
 export const DEBOUNCE_MS = 150;
 /** The address bar is written at most this often while the fields keep changing (last write always lands). */
 export const URL_WRITE_MS = 250;
+/** A ranking in the browser that takes longer than this shows "Updating…" (a quicker one would only flicker it). */
+const SLOW_RANK_MS = 120;
 
 export class RankState {
 	fields: OpFields = $state() as OpFields;
@@ -38,6 +44,14 @@ export class RankState {
 	private controller: AbortController | null = null;
 	private urlTimer: ReturnType<typeof setTimeout> | null = null;
 	private urlWritten = 0;
+	/** Ranks in the browser once set (its snapshot loaded). */
+	private ranker: BrowserRanker | null = $state.raw(null);
+	private ranking = false;
+	/** The fields changed while a ranking was in the worker: rank again when it answers. */
+	private again = false;
+	/** A result waiting for the next animation frame (one was already shown in this one). */
+	private held: { result: RankResponse; op: RankOperatingPoint } | null = null;
+	private shownThisFrame = false;
 
 	constructor(
 		fields: OpFields,
@@ -56,8 +70,33 @@ export class RankState {
 		return (op ? queryFromOperatingPoint(op) : queryFromFields(this.fields)).toString();
 	}
 
+	/** Rank in the browser from now on (the worker holds the snapshot); re-ranks what is on screen. */
+	rankInBrowser(ranker: BrowserRanker | null): void {
+		this.ranker = ranker;
+		// Fields changed while the snapshot loaded and their ranking is not shown yet: rank them here.
+		if (ranker && (this.timer || this.controller)) this.changed();
+	}
+
+	/** The catalogue changed under the ranking on screen: rank the same fields again. */
+	rerank(): void {
+		if (this.ranker) void this.rankHere();
+		else void this.refresh();
+	}
+
+	/** Whether rankings are made in the browser. */
+	get inBrowser(): boolean {
+		return this.ranker !== null;
+	}
+
 	/** Call after any field changed. */
 	changed(): void {
+		if (this.ranker) {
+			if (this.timer) clearTimeout(this.timer);
+			this.timer = null;
+			this.writeUrl();
+			void this.rankHere();
+			return;
+		}
 		if (this.timer) clearTimeout(this.timer);
 		this.timer = setTimeout(() => {
 			this.timer = null;
@@ -86,8 +125,62 @@ export class RankState {
 		else this.urlTimer = setTimeout(write, wait);
 	}
 
+	/** Ranks the current fields in the worker; changes meanwhile are ranked next, the latest only. */
+	private async rankHere(): Promise<void> {
+		if (this.ranking) {
+			this.again = true;
+			return;
+		}
+		const ranker = this.ranker;
+		const op = this.parsed.op;
+		if (!ranker || !op) return;
+		this.ranking = true;
+		const slow = setTimeout(() => (this.pending = true), SLOW_RANK_MS);
+		try {
+			const result = await ranker.rank(op, this.rows, this.curves);
+			if (this.ranker === ranker) this.show(result, op);
+		} catch (e) {
+			if (this.ranker === ranker) this.failure = `The ranking failed: ${(e as Error).message}`;
+		} finally {
+			clearTimeout(slow);
+			this.pending = false;
+			this.ranking = false;
+		}
+		if (this.again) {
+			this.again = false;
+			void this.rankHere();
+		}
+	}
+
+	/** Shows a result now, or at the next animation frame when one was shown in this one. */
+	private show(result: RankResponse, op: RankOperatingPoint): void {
+		if (this.shownThisFrame) {
+			const first = this.held === null;
+			this.held = { result, op };
+			if (first)
+				requestAnimationFrame(() => {
+					const h = this.held;
+					this.held = null;
+					this.shownThisFrame = false;
+					if (h) this.show(h.result, h.op);
+				});
+			return;
+		}
+		// A server answer still on its way would be older than this one.
+		this.controller?.abort();
+		this.failure = null;
+		this.result = result;
+		this.rankedOp = op;
+		this.updates++;
+		this.shownThisFrame = true;
+		requestAnimationFrame(() => {
+			if (!this.held) this.shownThisFrame = false;
+		});
+	}
+
 	/** Re-ranks now (aborting an earlier request), and mirrors the fields into the URL. */
 	async refresh(): Promise<void> {
+		if (this.ranker) return this.changed();
 		// An explicit refresh (Enter) makes a pending debounced one redundant.
 		if (this.timer) clearTimeout(this.timer);
 		this.timer = null;

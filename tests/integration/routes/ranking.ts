@@ -9,6 +9,7 @@ export const rankingRoutes: RouteCase[] = [
 	{ route: '/rank/export', method: 'GET', path: '/rank/export?v=-5&thi=25&format=csv', allow: 'any-role', kind: 'page' },
 	{ route: '/rank/compare', method: 'GET', path: '/rank/compare?ids=1,2&v=-5&thi=25', allow: 'any-role', kind: 'page' },
 	{ route: '/api/v1/rank', method: 'POST', path: '/api/v1/rank', allow: 'any-role', kind: 'api', json: op },
+	{ route: '/api/v1/rank/snapshot', method: 'GET', path: '/api/v1/rank/snapshot', allow: 'any-role', kind: 'api' },
 	// Live updates for open ranking and project screens (an event stream).
 	{ route: '/api/v1/events', method: 'GET', path: '/api/v1/events', allow: 'any-role', kind: 'api' },
 	{

@@ -66,7 +66,8 @@ for (const screen of SCREENS) {
 			expect(await seriousFindings(page)).toEqual([]);
 			if (!screen.setup) {
 				await page.setViewportSize({ width: 320, height: 800 });
-				await noSideScroll(page);
+				// Charts redraw to the new width on the next frames.
+				await expect(() => noSideScroll(page)).toPass({ timeout: 5_000 });
 			}
 			await page.context().close();
 		});

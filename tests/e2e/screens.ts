@@ -4,7 +4,7 @@
  * a new page under src/routes is added here, and the spec fails on a page it does not list.
  */
 import type { APIRequestContext, Page } from '@playwright/test';
-import { expect } from './fixtures';
+import { expect, forwardSweep } from './fixtures';
 import type { Role } from '../../src/lib/permissions';
 
 export type Visitor = Role | 'anonymous';
@@ -32,6 +32,11 @@ async function openShortlistDialog(page: Page) {
 	await page.getByRole('button', { name: /^(Shortlist|Add to project)/ }).first().click();
 	await expect(page.getByRole('dialog')).toBeVisible();
 	await expect(page.getByRole('dialog')).not.toContainText('Listing your projects');
+}
+
+async function openChartNumbers(page: Page) {
+	await page.getByText('The numbers behind this chart').first().click();
+	await expect(page.getByRole('region', { name: /^Numbers behind the chart/ }).first()).toBeVisible();
 }
 
 async function submitEmpty(page: Page, button: RegExp) {
@@ -64,7 +69,7 @@ export const SCREENS: Screen[] = [
 		route: 'catalogue',
 		path: () => '/catalogue',
 		roles: ['designer'],
-		state: 'the filters open',
+		state: 'the columns menu open',
 		setup: async (page) => {
 			await page.locator('main details > summary').first().click();
 		}
@@ -72,6 +77,7 @@ export const SCREENS: Screen[] = [
 	{ route: 'catalogue', path: () => '/catalogue?q=zzzz-nothing-matches', roles: ['designer'], state: 'nothing found' },
 	{ route: 'parts/[id=id]', path: (ids) => `/parts/${ids.part}`, roles: ANY_ROLE },
 	{ route: 'parts/[id=id]', path: (ids) => `/parts/${ids.part}`, roles: ['designer'], state: 'the shortlist dialog', setup: openShortlistDialog },
+	{ route: 'parts/[id=id]', path: (ids) => `/parts/${ids.part}`, roles: ['designer'], state: "a chart's numbers open", setup: openChartNumbers },
 	{ route: 'parts/[id=id]', path: () => '/parts/99999999', roles: ['designer'], state: 'a part that is not there', status: 404 },
 	{ route: 'parts/[id=id]/runs/[runId=id]', path: (ids) => `/parts/${ids.part}/runs/${ids.ivRun}`, roles: ANY_ROLE, state: 'an I–V run' },
 	{ route: 'parts/[id=id]/runs/[runId=id]', path: (ids) => `/parts/${ids.part}/runs/${ids.cvRun}`, roles: ['librarian'], state: 'a C–V run' },
@@ -90,6 +96,16 @@ export const SCREENS: Screen[] = [
 			await expect(page.getByTestId('intake')).toHaveAttribute('data-phase', /problem|refused/);
 		}
 	},
+	{
+		route: 'parts/[id=id]/upload',
+		path: (ids) => `/parts/${ids.part}/upload`,
+		roles: ['librarian'],
+		state: 'a sweep fitted',
+		setup: async (page) => {
+			await page.getByTestId('file-input').setInputFiles({ name: 'U9_25C.csv', mimeType: 'text/csv', buffer: forwardSweep(3e-15, 1.05, 0.9) });
+			await expect(page.getByTestId('intake')).toHaveAttribute('data-phase', 'fitted', { timeout: 30_000 });
+		}
+	},
 	{ route: 'parts/import', path: () => '/parts/import', roles: ['librarian'] },
 	{
 		route: 'parts/import',
@@ -106,14 +122,35 @@ export const SCREENS: Screen[] = [
 	{ route: 'parts/import/sweeps', path: () => '/parts/import/sweeps', roles: ['librarian'] },
 	{ route: 'rank', path: () => `/rank?${RANK_POINT}`, roles: ANY_ROLE },
 	{ route: 'rank', path: () => `/rank?${RANK_POINT}`, roles: ['designer'], state: 'the shortlist dialog', setup: openShortlistDialog },
+	{ route: 'rank', path: () => `/rank?${RANK_POINT}`, roles: ['designer'], state: "a chart's numbers open", setup: openChartNumbers },
 	{ route: 'rank', path: () => '/rank?v=-5&tlo=0&thi=85&ic=-1m&vf=0.7', roles: ['designer'], state: 'an operating point refused' },
 	{ route: 'rank/compare', path: (ids) => `/rank/compare?${RANK_POINT}&ids=${ids.part},${ids.part + 1}`, roles: ANY_ROLE },
 	{ route: 'node', path: () => '/node', roles: ANY_ROLE },
+	{
+		route: 'node',
+		path: () => '/node',
+		roles: ['designer'],
+		state: 'the catalogue ranked in the node',
+		setup: async (page) => {
+			await page.getByRole('button', { name: 'Rank candidates' }).click();
+			await expect(page.locator('main table').first()).toBeVisible({ timeout: 30_000 });
+		}
+	},
 	{ route: 'projects', path: () => '/projects', roles: ANY_ROLE },
 	{ route: 'projects/new', path: () => '/projects/new', roles: ['designer'] },
 	{ route: 'projects/new', path: () => '/projects/new', roles: ['designer'], state: 'the form refused', setup: (page) => submitEmpty(page, /^Create the project/) },
 	{ route: 'projects/[id=id]', path: (ids) => `/projects/${ids.draftProject}`, roles: ANY_ROLE, state: 'a draft' },
 	{ route: 'projects/[id=id]', path: (ids) => `/projects/${ids.submittedProject}`, roles: ['lead', 'designer'], state: 'submitted for review' },
+	{
+		route: 'projects/[id=id]',
+		path: (ids) => `/projects/${ids.submittedProject}`,
+		roles: ['lead'],
+		state: 'approving over misses asks for a note',
+		setup: async (page) => {
+			await page.getByRole('button', { name: /^Approve/ }).click();
+			await expect(page.getByRole('button', { name: 'Approve with these misses' })).toBeVisible();
+		}
+	},
 	{ route: 'projects/[id=id]/export/record', path: (ids) => `/projects/${ids.submittedProject}/export/record`, roles: ['lead'] },
 	{ route: 'account/tokens', path: () => '/account/tokens', roles: ANY_ROLE },
 	{
@@ -153,7 +190,7 @@ export async function demoIds(designer: APIRequestContext): Promise<DemoIds> {
 	const cvRun = runs.find((r) => r.measurement === 'cv')!.id;
 	const project = async (name: string) => {
 		const res = await designer.post('/api/v1/projects', {
-			data: { name, requirement: { biasV: -5, temperatureRangeC: [25, 85], clampCurrentA: 1e-3, maxForwardDropV: 0.7, leakageTargetA: 1e-12 } }
+			data: { name, requirement: { biasV: -5, temperatureRangeC: [25, 85], clampCurrentA: 1e-3, maxForwardDropV: 0.7, leakageTargetA: 1e-18 } }
 		});
 		expect(res.status(), await res.text()).toBe(201);
 		return (await res.json()).id as number;

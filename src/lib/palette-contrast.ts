@@ -30,9 +30,10 @@ export const CONTRAST_PAIRS: ContrastPair[] = [
 	{ fg: 'verdigris-light', bg: 'ink', min: 4.5, use: 'demo band link (hover)' },
 	{ fg: 'paper-edge', bg: 'paper', min: 3, use: 'control edge' },
 	{ fg: 'paper-edge', bg: 'white', min: 3, use: 'control edge' },
+	{ fg: 'paper-edge', bg: 'paper-deep', min: 3, use: 'decade ticks of the leakage ruler' },
 	{ fg: 'verdigris', bg: 'paper', min: 3, use: 'focus ring, chart series' },
 	{ fg: 'verdigris', bg: 'paper-deep', min: 3, use: 'focus ring' },
-	{ fg: 'ink-faint', bg: 'paper', min: 3, use: 'chart series, ruler ticks' },
-	{ fg: 'caution', bg: 'paper', min: 3, use: 'chart limit line, ruler band' }
+	{ fg: 'ink-faint', bg: 'paper', min: 3, use: 'chart series' },
+	{ fg: 'caution', bg: 'paper', min: 3, use: 'operating line on the charts, budget line on the ruler' }
 ];
 

@@ -48,7 +48,8 @@ test('an admin changes roles only after confirming, and is told what changed', a
 	await grant.click();
 	await admin.getByRole('button', { name: 'Grant the role' }).click();
 	await expect(admin.getByTestId('change-done')).toHaveText(`${NAME} now holds the lead role.`);
-	const remove = admin.getByRole('button', { name: `Remove the lead role from ${NAME}` });
+	// The button's name starts with the word it shows, then says what pressing it does.
+	const remove = admin.getByRole('button', { name: `Holds the lead role: remove it from ${NAME}` });
 	await expect(remove).toHaveText('✓ holds');
 	await remove.click();
 	await expect(admin.getByText(`Remove the lead role from ${NAME}? They will no longer be able to decide on submitted shortlists.`)).toBeVisible();

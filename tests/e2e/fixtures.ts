@@ -58,7 +58,7 @@ export async function noSideScroll(page: Page) {
 		const width = document.documentElement.clientWidth;
 		// The first few elements reaching past the right edge, to name in the failure.
 		const culprits = [...document.querySelectorAll('body *')]
-			.filter((el) => el.getBoundingClientRect().right > width + 1)
+			.filter((el) => el.getBoundingClientRect().right > width + 1 && !el.parentElement?.closest('.overflow-x-auto, .overflow-auto'))
 			.slice(0, 3)
 			.map((el) => `${el.tagName.toLowerCase()}.${String(el.className).slice(0, 60)}`);
 		return { over: document.documentElement.scrollWidth - width, culprits };

@@ -1,9 +1,11 @@
 /**
  * Load and fault benchmark against the built server and the real PostgreSQL (loopback):
- *  1. 200 connections for LOAD_SECONDS (60) across ranking, catalogue search and part pages;
+ *  1. 200 connections for LOAD_SECONDS (60) across ranking, catalogue search and part pages,
+ *     then the same connections on the health check alone (load-p50-vs-health: ratio of p50s);
  *  2. PostgreSQL stopped and restarted during a lighter run while a writer creates projects:
  *     the app must answer 503 while it is down, recover by itself, and keep every write it
- *     acknowledged.
+ *     acknowledged; outage-recovery-s is the time from PostgreSQL accepting connections
+ *     again (pg_ctl start -w has returned) to the writer's first acknowledged write.
  * Run through `npm run bench:load` (or `npm run bench`), which set up the stack first.
  */
 import { execFileSync } from 'node:child_process';
@@ -36,6 +38,15 @@ export async function runLoadBenchmarks() {
 	console.log('load:', describe(load));
 	const failed = load.errors + load.timeouts + load.non2xx;
 	record('load-error-rate', failed / Math.max(1, load.requests), 0, `${CONNECTIONS} connections × ${SECONDS} s: ${describe(load)}`);
+	// The same connections on the health check alone: what the machine and the HTTP layer give.
+	const healthSeconds = Math.min(SECONDS, 15);
+	const health = await runLoad({ url: APP_URL, token, mix: [{ method: 'GET', path: '/api/v1/health' }], connections: CONNECTIONS, seconds: healthSeconds });
+	record(
+		'load-p50-vs-health',
+		load.p50Ms / Math.max(health.p50Ms, 0.5),
+		3,
+		`p50 of the mixed load ${load.p50Ms} ms vs the health check alone ${health.p50Ms} ms, both at ${CONNECTIONS} connections (${SECONDS} s and ${healthSeconds} s; ${load.rps.toFixed(0)} vs ${health.rps.toFixed(0)} req/s; health errors ${health.errors + health.timeouts}, non-2xx ${health.non2xx})`
+	);
 
 	// 2. Database outage under load, with a writer.
 	const cluster = process.env.PG_CLUSTER;
@@ -45,6 +56,8 @@ export async function runLoadBenchmarks() {
 		return;
 	}
 	const acknowledged: number[] = [];
+	/** When each acknowledged write was answered. */
+	const acknowledgedAt: number[] = [];
 	const statuses: Record<number, number> = {};
 	let writing = true;
 	const writer = (async () => {
@@ -56,7 +69,10 @@ export async function runLoadBenchmarks() {
 					body: JSON.stringify({ name: `outage writer ${Date.now()}-${i}`, requirement: { biasV: -1, temperatureC: 25 } })
 				});
 				statuses[res.status] = (statuses[res.status] ?? 0) + 1;
-				if (res.status === 201) acknowledged.push((await res.json()).id);
+				if (res.status === 201) {
+					acknowledged.push((await res.json()).id);
+					acknowledgedAt.push(Date.now());
+				}
 				else await res.arrayBuffer();
 			} catch {
 				statuses[0] = (statuses[0] ?? 0) + 1;
@@ -72,6 +88,7 @@ export async function runLoadBenchmarks() {
 	await new Promise((r) => setTimeout(r, 5000));
 	const duringOutage = await fetch(`${APP_URL}/api/v1/junctions`, { headers: { authorization: `Bearer ${token}` } });
 	pg('start');
+	const upAt = Date.now();
 	let recoveredMs = -1;
 	for (let i = 0; i < 200; i++) {
 		const r = await fetch(`${APP_URL}/api/v1/junctions?limit=1`, { headers: { authorization: `Bearer ${token}` } });
@@ -85,6 +102,9 @@ export async function runLoadBenchmarks() {
 	const outage = await background;
 	writing = false;
 	await writer;
+	const firstWrite = acknowledgedAt.find((t) => t >= upAt);
+	// No write at all after the start counts as the longest outage the run could show.
+	const writeRecoveryS = firstWrite === undefined ? 999 : (firstWrite - upAt) / 1000;
 	const stored = acknowledged.length
 		? (await db.select({ id: projects.id }).from(projects).where(inArray(projects.id, acknowledged))).length
 		: 0;
@@ -92,6 +112,12 @@ export async function runLoadBenchmarks() {
 	const detail = `PostgreSQL down ~5 s under 20 connections: during the outage the API answered ${duringOutage.status}; recovered ${recoveredMs} ms after the stop without a restart; writer statuses ${JSON.stringify(statuses)}; ${acknowledged.length} acknowledged writes, ${stored} found afterwards; load ${describe(outage)}`;
 	console.log('faults:', detail);
 	record('fault-acknowledged-writes-lost', lost / Math.max(1, acknowledged.length), 0, detail);
+	record(
+		'outage-recovery-s',
+		writeRecoveryS,
+		5,
+		`from PostgreSQL accepting connections again to the first acknowledged write: ${firstWrite === undefined ? 'none within the run' : `${writeRecoveryS.toFixed(2)} s`} (a read answered 200 ${recoveredMs >= 0 ? `${((recoveredMs - (upAt - downAt)) / 1000).toFixed(2)} s after the start` : 'never'}); the writer posts a project every 20 ms`
+	);
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {

@@ -50,7 +50,7 @@ export function writeReport(): string {
 	const lines = [
 		'# Benchmark report',
 		'',
-		`Measured by \`npm run bench\` on ${new Date().toISOString().slice(0, 10)}; machine: ${machine()}.`,
+		`Measured by \`npm run bench\` on ${new Date().toISOString().slice(0, 10)}; machine: ${machine()}.${process.env.BENCH_NOTE ? ` ${process.env.BENCH_NOTE}` : ''}`,
 		'Each ratio compares two measurements taken in the same run, so it travels between machines better than a time does.',
 		'',
 		'| benchmark | ratio | target | meets | detail |',

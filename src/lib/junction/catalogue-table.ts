@@ -8,28 +8,11 @@ import { SI_2019, type PhysicalConstants } from './constants';
 import type { JunctionModel } from './model';
 import { ModelTable } from './model-table';
 import { judgementOf, temperatureEnds, type OperatingPoint, type RankBasis } from './operating-point';
-import {
-	BIT_CURRENT_EXTRAPOLATED,
-	BIT_FORWARD_DROP_OVER_LIMIT,
-	BIT_OVER_CAPACITANCE_LIMIT,
-	BIT_OVER_FORWARD_RATING,
-	BIT_OVER_LEAKAGE_TARGET,
-	BIT_OVER_REVERSE_RATING,
-	BIT_TEMPERATURE_EXTRAPOLATED,
-	flagsFromBits,
-	LIMIT_BITS,
-	staticFlagsOf
-} from './rank-flags';
+import { BIT_OVER_REVERSE_RATING, flagsFromBits, LIMIT_BITS, staticFlagsOf } from './rank-flags';
+import { flagPass, multiSampleStatistics, partLayout, type FlagInputs, type PartColumns, type PartLayout } from './rank-pass';
 import { CatalogueCaches, medianOfPrefix } from './catalogue-caches';
 import { BoundsOnDemand } from './bounds-on-demand';
-import {
-	GROUP_FAILS_LIMIT as FAILS_LIMIT,
-	GROUP_GIVEN as GIVEN,
-	GROUP_NO_VALUE as NO_VALUE,
-	GROUP_UNLISTED as UNLISTED,
-	orderGroups,
-	RANK_GROUPS as GROUPS
-} from './rank-order';
+import { GROUP_FAILS_LIMIT as FAILS_LIMIT, GROUP_NO_VALUE as NO_VALUE, GROUP_UNLISTED as UNLISTED, orderGroups, RANK_GROUPS as GROUPS } from './rank-order';
 import type { CatalogueView, PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
 import { toleranceFactor } from './tolerance';
 import { CatalogueNoise } from './catalogue-noise';
@@ -38,8 +21,6 @@ import { CatalogueNoise } from './catalogue-noise';
 const EXCLUDED = GROUPS;
 const BASIS_INDEX: Record<RankBasis, number> = { bound: 0, worst: 1, typical: 2 };
 
-/** Result columns per part, in the one buffer: typical, worst, bound, drops ×3, capacitance, noise ×3. */
-const COLUMNS = 10;
 
 /**
  * In-memory catalogue built from plain records. Build once at start-up, then call
@@ -72,12 +53,15 @@ export class CatalogueTable {
 	private bucket = new Uint8Array(0);
 	private counts = new Int32Array(GROUPS + 1);
 	private resultColumns = new Float64Array(0);
+	/** NaN in three columns of the part count: what a result shows for figures not computed. */
+	private nanColumns = new Float64Array(0);
 	private resultFlags = new Uint32Array(0);
 	private scratchKeys = new Float64Array(0);
 	private bounds!: BoundsOnDemand;
 	private caches!: CatalogueCaches;
 	private noise!: CatalogueNoise;
 	private factorCache = new Map<string, Float64Array>();
+	private layout!: PartLayout;
 
 	constructor(records: readonly PartRecord[] = []) {
 		this.refresh(records);
@@ -148,12 +132,14 @@ export class CatalogueTable {
 		this.scratchGroups = new Int32Array(n);
 		this.bucket = new Uint8Array(n);
 		this.scratchKeys = new Float64Array(n);
+		this.layout = partLayout(count, given, minMeasured);
 		this.bounds = new BoundsOnDemand(start, count, maxSamples);
 		this.caches = new CatalogueCaches(this.models, start, count, this.temps, tempOffsets, maxSamples);
 		this.noise = new CatalogueNoise(this.models, start, count, given, maxSamples);
 		this.factorCache = new Map();
 		this.resultColumns = new Float64Array(0);
 		this.resultFlags = new Uint32Array(0);
+		this.nanColumns = new Float64Array(3 * n).fill(NaN);
 	}
 
 	/** The table's columns for other evaluations over the same catalogue (the protected node's ranking). */
@@ -208,24 +194,16 @@ export class CatalogueTable {
 		if (!(limit >= 0)) throw new RangeError(`limit must be a non-negative number, got ${options.limit}`);
 		const factors = this.factorsFor(coverage, confidence);
 		const hotI = this.models.currents(op.biasV, hot, this.scratchHot, constants, op.sourceResistanceOhm ?? 0);
-		// One allocation for the result's columns, or none when reusing the table's.
-		if (options.reuse && this.resultColumns.length !== COLUMNS * n) {
-			this.resultColumns = new Float64Array(COLUMNS * n);
-			this.resultFlags = new Uint32Array(n);
-		}
-		const columns = options.reuse ? this.resultColumns : new Float64Array(COLUMNS * n);
-		const column = (i: number) => columns.subarray(i * n, (i + 1) * n);
-		const [typicalA, worstA, boundA, dropHotV, dropColdV, dropWorstV, capacitanceF, noiseTypical, noiseWorst, noiseBound] = Array.from(
-			{ length: COLUMNS },
-			(_, i) => column(i)
-		);
-		// NaN = not computed: forward drops without a clamp current, capacitance and noise without a limit.
-		if (op.clampCurrentA === undefined) columns.fill(NaN, 3 * n, 6 * n);
-		columns.fill(NaN, 6 * n);
-		const flags = options.reuse ? this.resultFlags : new Uint32Array(n);
-		// Forward drops do not depend on the bias: kept per clamp current and temperature ends.
-		if (op.clampCurrentA !== undefined) columns.set(this.caches.dropsAt(op.clampCurrentA, cold, hot, constants), 3 * n);
-		this.partLoop(op, cold, hot, hotI, include, constants, BASIS_INDEX[basis], factors, typicalA, worstA, boundA, dropWorstV, capacitanceF, flags);
+		const columns = this.resultColumnsFor(op, n, options.reuse === true);
+		const { typicalA, worstA, boundA, capacitanceF, flags } = columns;
+		// Forward drops do not depend on the bias: kept per clamp current and temperature ends,
+		// shown as they are in a reused (read-only) result, copied into one the caller owns.
+		const reuse = options.reuse === true;
+		let drops = op.clampCurrentA !== undefined ? this.caches.dropsAt(op.clampCurrentA, cold, hot, constants) : this.nanColumns;
+		if (!reuse) drops = drops.slice();
+		const [dropHotV, dropColdV, dropWorstV] = [0, 1, 2].map((i) => drops.subarray(i * n, (i + 1) * n));
+		const [noiseTypical, noiseWorst, noiseBound] = columns.noise;
+		this.partPasses(op, cold, hot, hotI, include, constants, BASIS_INDEX[basis], factors, { typicalA, worstA, boundA, dropWorstV, capacitanceF, flags });
 		if (op.maxNoiseA_rtHz !== undefined)
 			this.noise.limitPass(
 				{ limit: op.maxNoiseA_rtHz, biasV: op.biasV, hot, currents: hotI, include, constants, basis, factors },
@@ -243,7 +221,7 @@ export class CatalogueTable {
 				: basis === 'worst'
 					? worstA
 					: this.bounds.keys(members, take, hotI, factors, { boundA, worstA, typicalA }, this.scratchKeys);
-		const order = orderGroups(this.bucket, counts.subarray(0, GROUPS), UNLISTED, keyOf, typicalA, limit, this.scratchGroups, this.scratchKeys);
+		const order = orderGroups(this.bucket, counts.subarray(0, GROUPS), UNLISTED, keyOf, typicalA, limit, this.scratchGroups, this.scratchKeys, this.layout.all);
 		this.bounds.settleAll(order, hotI, factors, boundA);
 		let ranked = 0;
 		let meetingLimits = 0;
@@ -278,6 +256,41 @@ export class CatalogueTable {
 	}
 
 	/**
+	 * The result's columns: typical, worst and bound per part (a bound is NaN until computed:
+	 * always for a part with one sample), flags, and capacitance and noise where a limit needs
+	 * them, else NaN (not computed). With `reuse` they are the table's own buffers, allocated
+	 * once per content, and columns of figures not computed are one shared column of NaN, so
+	 * such a result is read-only; otherwise every column is a fresh array the caller owns.
+	 */
+	private resultColumnsFor(op: OperatingPoint, n: number, reuse: boolean) {
+		let buffer: Float64Array;
+		let flags: Uint32Array;
+		if (reuse) {
+			if (this.resultColumns.length !== 6 * n) {
+				this.resultColumns = new Float64Array(6 * n).fill(NaN, 2 * n);
+				this.resultFlags = new Uint32Array(n);
+			}
+			buffer = this.resultColumns;
+			flags = this.resultFlags;
+		} else {
+			buffer = new Float64Array(6 * n).fill(NaN, 2 * n);
+			flags = new Uint32Array(n);
+		}
+		const column = (i: number) => buffer.subarray(i * n, (i + 1) * n);
+		const nan = () => (reuse ? this.nanColumns.subarray(0, n) : new Float64Array(n).fill(NaN));
+		let capacitanceF: Float64Array = nan();
+		if (op.maxCapacitanceF !== undefined) (capacitanceF = column(3)).fill(NaN);
+		let noise: Float64Array[] = [nan(), nan(), nan()];
+		if (op.maxNoiseA_rtHz !== undefined) {
+			buffer.fill(NaN, 3 * n);
+			noise = [column(3), column(4), column(5)];
+			// Capacitance and noise limits together: the capacitance gets a column of its own.
+			if (op.maxCapacitanceF !== undefined) capacitanceF = new Float64Array(n).fill(NaN);
+		}
+		return { typicalA: column(0), worstA: column(1), boundA: column(2), capacitanceF, noise, flags };
+	}
+
+	/**
 	 * Tolerance factor k by sample count for a coverage and confidence (NaN below two
 	 * samples and for counts no measured part has), kept for the last few pairs asked for.
 	 */
@@ -293,14 +306,11 @@ export class CatalogueTable {
 	}
 
 	/**
-	 * The per-part pass of `rank` (its own function so the engine optimises it whole):
-	 * statistics over samples (typical, worst, bound), flags, and each listed part's rank
-	 * group in `bucket` with `counts` per group (and excluded parts in counts[EXCLUDED]).
-	 * The bound is left pending (NaN; bounds-on-demand.ts) unless the leakage budget needs
-	 * it now: ranked on the bound with a budget at or above the part's least sample. A part
-	 * whose samples all leak exactly zero (zero bias) has a zero bound.
+	 * The per-part passes of `rank` (rank-pass.ts): sample statistics, the capacitance where
+	 * a limit needs it, then flags and each listed part's rank group in `bucket` with
+	 * `counts` per group (and excluded parts in counts[EXCLUDED]).
 	 */
-	private partLoop(
+	private partPasses(
 		op: OperatingPoint,
 		cold: number,
 		hot: number,
@@ -309,108 +319,34 @@ export class CatalogueTable {
 		constants: PhysicalConstants,
 		basis: number,
 		factors: Float64Array,
-		typicalA: Float64Array,
-		worstA: Float64Array,
-		boundA: Float64Array,
-		dropWorstV: Float64Array,
-		capacitanceF: Float64Array,
-		flags: Uint32Array
+		out: PartColumns
 	): void {
-		const n = this.parts.length;
-		const margin = op.reverseMarginV ?? 0;
-		const maxDrop = op.maxForwardDropV ?? Infinity;
 		const maxLeak = op.maxLeakageA ?? Infinity;
+		const layout = this.layout;
+		const { typicalA, worstA, boundA, capacitanceF } = out;
+		multiSampleStatistics(layout.multiples, this.start, this.count, this.given, hotI, this.scratchSort, basis === 0, maxLeak, this.bounds, factors, typicalA, worstA, boundA);
 		const maxCap = op.maxCapacitanceF;
-		const clampA = op.clampCurrentA ?? 0;
-		const sort = this.scratchSort;
-		const least = this.bounds.least;
-		const pending = this.bounds.pending;
-		const onBound = basis === 0;
-		const farCold = this.caches.farAt(cold);
-		const farHot = this.caches.farAt(hot);
-		const mid = 0.5 * (hot + cold);
-		const bucket = this.bucket;
-		const counts = this.counts;
-		// The table's columns as locals, so the loop reads them without going through `this`.
-		const start = this.start;
-		const count = this.count;
-		const given = this.given;
-		const staticFlags = this.staticFlags;
-		const minMeasured = this.minMeasured;
-		const ratedReverse = this.ratedReverse;
-		const ratedForward = this.ratedForward;
-		const hasCjo = this.hasCjo;
-		const biasV = op.biasV;
-		// Reverse bias [V] (−Infinity when forward, so no part is over its rating).
-		const reverseV = biasV < 0 ? -biasV : -Infinity;
-		const keepOver = op.includeOverRating === true;
-		counts.fill(0);
-		for (let p = 0; p < n; p++) {
-			const s0 = start[p];
-			const c = count[p];
-			let worst = 0;
-			let typical: number;
-			let bound = NaN;
-			let hasBound = false;
-			pending[p] = 0;
-			if (c === 1) {
-				// One sample: it is the median, and there is no bound; NaN stays out of the worst, as below.
-				typical = Math.abs(hotI[s0]);
-				if (typical > 0) worst = typical;
-			} else {
-				for (let k = 0; k < c; k++) {
-					const a = Math.abs(hotI[s0 + k]);
-					sort[k] = a;
-					if (a > worst) worst = a;
-				}
-				typical = medianOfPrefix(sort, c);
-				if (given[p] === 0) {
-					hasBound = true;
-					// sort[0] is the least sample now (NaN, if any, sorts nowhere in particular: then no cap).
-					const low = sort[0];
-					if (worst === 0) bound = 0;
-					else if (onBound && maxLeak !== Infinity && !(low > maxLeak)) {
-						least[p] = low;
-						bound = this.bounds.settle(p, hotI, factors, boundA);
-					} else {
-						least[p] = low === low ? low : 0;
-						pending[p] = 1;
-					}
-				}
-			}
-			typicalA[p] = typical;
-			worstA[p] = worst;
-			boundA[p] = bound;
-			// A pending bound is above the budget (its least sample is) or there is no budget.
-			const value = basis === 0 ? (pending[p] ? least[p] : bound) : basis === 1 ? worst : typical;
-			const hasValue = basis === 0 ? hasBound : value === value;
-			let f = staticFlags[p];
-			if (typical < minMeasured[p] / 10) f |= BIT_CURRENT_EXTRAPOLATED;
-			if (farCold[p] | farHot[p]) f |= BIT_TEMPERATURE_EXTRAPOLATED;
-			// Without a value on the basis (no bound), the budget is held against the worst sample.
-			if ((hasValue ? value : worst) > maxLeak) f |= BIT_OVER_LEAKAGE_TARGET;
-			// NaN (no clamp current) never exceeds the limit.
-			if (dropWorstV[p] > maxDrop) f |= BIT_FORWARD_DROP_OVER_LIMIT;
-			if (clampA > ratedForward[p]) f |= BIT_OVER_FORWARD_RATING;
-			if (maxCap !== undefined && hasCjo[p] && (!include || include[p] !== 0)) {
-				const cap = this.medianCapacitance(p, biasV, mid, constants);
-				capacitanceF[p] = cap;
-				if (cap > maxCap) f |= BIT_OVER_CAPACITANCE_LIMIT;
-			}
-			const over = reverseV > ratedReverse[p] - margin;
-			if (over) f |= BIT_OVER_REVERSE_RATING;
-			flags[p] = f;
-			let b = UNLISTED;
-			if (include && include[p] === 0) b = UNLISTED;
-			else if (over && !keepOver) counts[EXCLUDED]++;
-			else {
-				b = ((f & LIMIT_BITS) !== 0 ? FAILS_LIMIT : 0) | (given[p] === 1 ? GIVEN : 0) | (hasValue ? 0 : NO_VALUE);
-				counts[b]++;
-			}
-			bucket[p] = b;
+		if (maxCap !== undefined) {
+			const mid = 0.5 * (hot + cold);
+			for (let p = 0; p < this.parts.length; p++)
+				if (this.hasCjo[p] && (!include || include[p] !== 0)) capacitanceF[p] = this.medianCapacitance(p, op.biasV, mid, constants);
 		}
-		// Nothing after the loop: code the first (on-stack-replaced) run never reached
-		// would make V8 drop the optimised loop at its end on every call.
+		const inputs: FlagInputs = {
+			basis,
+			maxLeak,
+			maxDrop: op.clampCurrentA !== undefined ? (op.maxForwardDropV ?? Infinity) : Infinity,
+			clampA: op.clampCurrentA ?? 0,
+			maxCap: maxCap ?? Infinity,
+			// Reverse bias [V] (−Infinity when forward, so no part is over its rating).
+			reverseV: op.biasV < 0 ? -op.biasV : -Infinity,
+			marginV: op.reverseMarginV ?? 0,
+			keepOverRating: op.includeOverRating === true,
+			include,
+			farCold: this.caches.farAt(cold),
+			farHot: this.caches.farAt(hot)
+		};
+		const b = this.bounds;
+		flagPass(inputs, layout, this.start, this.count, this.given, this.staticFlags, this.ratedReverse, this.ratedForward, b.least, b.pending, hotI, out, this.bucket, this.counts, EXCLUDED);
 	}
 
 	/**

@@ -213,6 +213,7 @@ function selectSmallest(a: Float64Array, k: number): void {
  * until `limit` parts are taken.
  * @param groups work array of at least as many entries as listed parts
  * @param scratch work array for `orderByKey`
+ * @param every optional 0 … bucket.length − 1: the members when one group holds every part
  */
 export function orderGroups(
 	bucket: Uint8Array,
@@ -222,23 +223,28 @@ export function orderGroups(
 	tie: Float64Array,
 	limit: number,
 	groups: Int32Array,
-	scratch?: Float64Array
+	scratch?: Float64Array,
+	every?: Int32Array
 ): Int32Array {
 	const g = counts.length;
 	const offsets = new Int32Array(g + 1);
 	for (let b = 0; b < g; b++) offsets[b + 1] = offsets[b] + counts[b];
-	const next = offsets.slice(0, g);
-	for (let p = 0; p < bucket.length; p++) {
-		const b = bucket[p];
-		if (b !== unlisted) groups[next[b]++] = p;
+	let members: Int32Array = groups;
+	if (every && counts.some((c) => c === bucket.length)) members = every;
+	else {
+		const next = offsets.slice(0, g);
+		for (let p = 0; p < bucket.length; p++) {
+			const b = bucket[p];
+			if (b !== unlisted) groups[next[b]++] = p;
+		}
 	}
 	const pieces: Int32Array[] = [];
 	let taken = 0;
 	for (let b = 0; b < g && taken < limit; b++) {
 		if (counts[b] === 0) continue;
-		const members = groups.subarray(offsets[b], offsets[b + 1]);
-		const take = Math.min(members.length, limit - taken);
-		const piece = orderByKey(members, keyOf(b, members, take), tie, take, scratch);
+		const group = members.subarray(offsets[b], offsets[b + 1]);
+		const take = Math.min(group.length, limit - taken);
+		const piece = orderByKey(group, keyOf(b, group, take), tie, take, scratch);
 		pieces.push(piece);
 		taken += piece.length;
 	}

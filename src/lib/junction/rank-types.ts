@@ -83,7 +83,8 @@ export interface RankOptions {
 	 * Write the result's per-part columns into buffers the table keeps instead of fresh
 	 * arrays: no allocation proportional to the catalogue, but the result is only valid
 	 * until the next `rank` call with `reuse` on this table (use it when the result is read
-	 * at once, as the server does).
+	 * at once, as the server does). Such a result is read-only: some of its columns are the
+	 * table's kept ones (forward drops, the NaN of figures not computed).
 	 */
 	reuse?: boolean;
 }

@@ -4,7 +4,8 @@
  * is split by job:
  *  - operating-point.ts  the operating point, the basis (bound / worst / typical), temperature ends;
  *  - rank-flags.ts       the flag vocabulary (codes, words, bits, which flags are limits);
- *  - catalogue-table.ts  the in-memory table: evaluation, per-part statistics, flags, groups;
+ *  - catalogue-table.ts  the in-memory table: evaluation and the result's columns;
+ *  - rank-pass.ts        per-part statistics, flags and groups, with what no operating point changes prepared once;
  *  - bounds-on-demand.ts statistical bounds computed only where the order or the list needs them;
  *  - catalogue-noise.ts  the current-noise figures and the noise limit;
  *  - rank-order.ts       ordering and selection of part indices by key columns;

@@ -10,6 +10,7 @@ import type { CatalogueTable } from '$lib/junction/catalogue-table';
 import type { OperatingPoint } from '$lib/junction/operating-point';
 import type { RankResult, RankedPart } from '$lib/junction/rank-types';
 import { leakageBudget } from '$lib/projects/leakage-budget';
+import { listedPart } from '$lib/catalogue/part-names';
 import type { RankFlag, RankItem, RankKind, RankLifecycle, RankOperatingPoint, RankResponse, SpiceModel } from '$lib/schemas/rank';
 
 /** What the ranked list needs to know about a part besides its models (the server's cache holds more). */
@@ -53,14 +54,7 @@ export function engineOperatingPoint(op: RankOperatingPoint): OperatingPoint {
 /** One ranked row as an API item (without its rank). */
 export function toItem(part: ListedPart, row: RankedPart, op: RankOperatingPoint): Omit<RankItem, 'rank'> {
 	return {
-		id: part.id,
-		partNumber: part.partNumber,
-		maker: part.maker,
-		kind: part.kind,
-		package: part.package,
-		lifecycle: part.lifecycle,
-		ratedReverseV: part.ratedReverseV,
-		ratedForwardA: part.ratedForwardA,
+		...listedPart(part),
 		samples: row.samples,
 		evidence: row.evidence,
 		leakageA: row.leakageA,

@@ -5,6 +5,7 @@
  * POST /api/v1/rank, written as items like that endpoint's.
  */
 import { candidateCircuit, nodeRankRows, NodeError, rankNode, SI_2019, type NodeRankedPart, type NodeRankResult, type RankPosition } from '$lib/junction';
+import { listedPart } from '$lib/catalogue/part-names';
 import { networkOf } from '$lib/schemas/node';
 import type { NodeCurvePoint, NodeRankItem, NodeRankRequestBody, NodeRankResponse } from '$lib/schemas/node-rank';
 import type { RankFlag } from '$lib/schemas/rank';
@@ -36,14 +37,7 @@ function itemOf(part: CachedPart, row: NodeRankedPart, rank: number, result: Nod
 	const drop = e && e.cold !== null && e.hot !== null ? { cold: e.cold, hot: e.hot, worst: Math.max(e.cold, e.hot) } : null;
 	return {
 		rank,
-		id: part.id,
-		partNumber: part.partNumber,
-		maker: part.maker,
-		kind: part.kind,
-		package: part.package,
-		lifecycle: part.lifecycle,
-		ratedReverseV: part.ratedReverseV,
-		ratedForwardA: part.ratedForwardA,
+		...listedPart(part),
 		samples: row.samples,
 		evidence: row.evidence,
 		leakageA: row.netCurrentA,

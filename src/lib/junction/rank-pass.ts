@@ -1,0 +1,211 @@
+/**
+ * The per-part passes of a ranking over the catalogue table's columns (definitions in
+ * rank.ts): sample statistics (typical, worst, the bound or its pending lower bound), then
+ * flags and rank groups. What does not depend on the operating point is prepared once per
+ * table content (`PartLayout`): which parts have several samples, which can have a bound,
+ * a tenth of the least measured current. Each pass is a plain loop over typed arrays; the
+ * flag pass reads only the columns of limits the operating point states, since at 100k
+ * parts the time goes into memory traffic more than into arithmetic.
+ */
+import {
+	BIT_CURRENT_EXTRAPOLATED,
+	BIT_FORWARD_DROP_OVER_LIMIT,
+	BIT_OVER_CAPACITANCE_LIMIT,
+	BIT_OVER_FORWARD_RATING,
+	BIT_OVER_LEAKAGE_TARGET,
+	BIT_OVER_REVERSE_RATING,
+	BIT_TEMPERATURE_EXTRAPOLATED,
+	LIMIT_BITS
+} from './rank-flags';
+import { medianOfPrefix } from './catalogue-caches';
+import type { BoundsOnDemand } from './bounds-on-demand';
+import { GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE, GROUP_UNLISTED } from './rank-order';
+
+/** Facts about the parts that no operating point changes, prepared with the table. */
+export interface PartLayout {
+	/** Parts with two or more samples, in index order. */
+	multiples: Int32Array;
+	/** 1 for a measured part with two or more samples: it has a statistical bound. */
+	boundable: Uint8Array;
+	/** A tenth of the least measured |current| [A]: typical leakage below it is an extrapolation. */
+	extrapolationA: Float64Array;
+	/** 0 … n − 1: the members of a group that holds every part. */
+	all: Int32Array;
+}
+
+export function partLayout(count: Int32Array, given: Uint8Array, minMeasuredA: Float64Array): PartLayout {
+	const n = count.length;
+	let multiples = 0;
+	for (let p = 0; p < n; p++) if (count[p] > 1) multiples++;
+	const layout: PartLayout = {
+		multiples: new Int32Array(multiples),
+		boundable: new Uint8Array(n),
+		extrapolationA: new Float64Array(n),
+		all: Int32Array.from({ length: n }, (_, p) => p)
+	};
+	let m = 0;
+	for (let p = 0; p < n; p++) {
+		if (count[p] > 1) layout.multiples[m++] = p;
+		layout.boundable[p] = given[p] === 0 && count[p] >= 2 ? 1 : 0;
+		layout.extrapolationA[p] = minMeasuredA[p] / 10;
+	}
+	return layout;
+}
+
+/**
+ * Several samples: median, largest, and for a measured part the bound, left pending (NaN
+ * in boundA; bounds-on-demand.ts) unless the leakage budget needs it now: ranked on the
+ * bound (`onBound`) with a budget at or above the part's least sample. A part whose
+ * samples all leak exactly zero (zero bias) has a zero bound.
+ */
+export function multiSampleStatistics(
+	multiples: Int32Array,
+	start: Int32Array,
+	count: Int32Array,
+	given: Uint8Array,
+	hotI: Float64Array,
+	sort: Float64Array,
+	onBound: boolean,
+	maxLeak: number,
+	bounds: BoundsOnDemand,
+	factors: Float64Array,
+	typicalA: Float64Array,
+	worstA: Float64Array,
+	boundA: Float64Array
+): void {
+	const least = bounds.least;
+	const pending = bounds.pending;
+	for (let i = 0; i < multiples.length; i++) {
+		const p = multiples[i];
+		const s0 = start[p];
+		const c = count[p];
+		let worst = 0;
+		for (let k = 0; k < c; k++) {
+			const a = Math.abs(hotI[s0 + k]);
+			sort[k] = a;
+			if (a > worst) worst = a;
+		}
+		const typical = medianOfPrefix(sort, c);
+		let bound = NaN;
+		pending[p] = 0;
+		if (given[p] === 0) {
+			// sort[0] is the least sample now (NaN, if any, sorts nowhere in particular: then no cap).
+			const low = sort[0];
+			if (worst === 0) bound = 0;
+			else if (onBound && maxLeak !== Infinity && !(low > maxLeak)) {
+				least[p] = low;
+				bound = bounds.settle(p, hotI, factors, boundA);
+			} else {
+				least[p] = low === low ? low : 0;
+				pending[p] = 1;
+			}
+		}
+		typicalA[p] = typical;
+		worstA[p] = worst;
+		boundA[p] = bound;
+	}
+}
+
+/** The operating point's limits and the columns the flag pass reads besides the statistics. */
+export interface FlagInputs {
+	/** 0 bound, 1 worst, 2 typical. */
+	basis: number;
+	maxLeak: number;
+	/** Forward-drop limit [V] (Infinity: none, or no clamp current to judge it at). */
+	maxDrop: number;
+	/** Clamp current [A] (0 without one: never over a forward rating). */
+	clampA: number;
+	/** Capacitance limit [F] (Infinity: none). */
+	maxCap: number;
+	/** Reverse bias [V] (−Infinity when forward). */
+	reverseV: number;
+	marginV: number;
+	keepOverRating: boolean;
+	include: Uint8Array | undefined;
+	farCold: Uint8Array;
+	farHot: Uint8Array;
+}
+
+/** The columns a ranking writes per part. */
+export interface PartColumns {
+	typicalA: Float64Array;
+	worstA: Float64Array;
+	boundA: Float64Array;
+	dropWorstV: Float64Array;
+	capacitanceF: Float64Array;
+	flags: Uint32Array;
+}
+
+/**
+ * Statistics of the parts with one sample (it is the median and the worst, NaN kept out of
+ * the worst; no bound), then flags of every part and its rank group in `bucket` (UNLISTED
+ * when filtered out or left out over its reverse rating), with `counts` per group and the
+ * parts left out over their rating in counts[excludedAt]. Parts with several samples have
+ * their statistics from `multiSampleStatistics` already. A limit the operating point does
+ * not state is not looked at (its column is not read).
+ */
+export function flagPass(
+	x: FlagInputs,
+	layout: PartLayout,
+	start: Int32Array,
+	count: Int32Array,
+	given: Uint8Array,
+	staticFlags: Uint32Array,
+	ratedReverse: Float64Array,
+	ratedForward: Float64Array,
+	least: Float64Array,
+	pending: Uint8Array,
+	hotI: Float64Array,
+	out: PartColumns,
+	bucket: Uint8Array,
+	counts: Int32Array,
+	excludedAt: number
+): void {
+	const { basis, maxLeak, maxDrop, clampA, maxCap, reverseV, marginV, keepOverRating, include, farCold, farHot } = x;
+	const { typicalA, worstA, boundA, dropWorstV, capacitanceF, flags } = out;
+	const boundable = layout.boundable;
+	const extrapolationA = layout.extrapolationA;
+	const checkDrop = maxDrop !== Infinity;
+	const checkForward = clampA > 0;
+	const checkCap = maxCap !== Infinity;
+	const n = flags.length;
+	counts.fill(0);
+	for (let p = 0; p < n; p++) {
+		let typical: number;
+		let worst: number;
+		if (count[p] === 1) {
+			typical = Math.abs(hotI[start[p]]);
+			worst = typical > 0 ? typical : 0;
+			typicalA[p] = typical;
+			worstA[p] = worst;
+		} else {
+			typical = typicalA[p];
+			worst = worstA[p];
+		}
+		// A pending bound is above the budget (its least sample is) or there is no budget.
+		const hasValue = basis === 0 ? boundable[p] === 1 : basis === 1 ? worst === worst : typical === typical;
+		const value = basis === 0 ? (hasValue ? (pending[p] ? least[p] : boundA[p]) : NaN) : basis === 1 ? worst : typical;
+		let f = staticFlags[p];
+		if (typical < extrapolationA[p]) f |= BIT_CURRENT_EXTRAPOLATED;
+		if (farCold[p] | farHot[p]) f |= BIT_TEMPERATURE_EXTRAPOLATED;
+		// Without a value on the basis (no bound), the budget is held against the worst sample.
+		if ((hasValue ? value : worst) > maxLeak) f |= BIT_OVER_LEAKAGE_TARGET;
+		if (checkDrop && dropWorstV[p] > maxDrop) f |= BIT_FORWARD_DROP_OVER_LIMIT;
+		if (checkForward && clampA > ratedForward[p]) f |= BIT_OVER_FORWARD_RATING;
+		// NaN (not computed: no CJO, or filtered out) never exceeds the limit.
+		if (checkCap && capacitanceF[p] > maxCap) f |= BIT_OVER_CAPACITANCE_LIMIT;
+		const over = reverseV > ratedReverse[p] - marginV;
+		if (over) f |= BIT_OVER_REVERSE_RATING;
+		flags[p] = f;
+		let b = GROUP_UNLISTED;
+		if (include && include[p] === 0) b = GROUP_UNLISTED;
+		else if (over && !keepOverRating) counts[excludedAt]++;
+		else {
+			b = ((f & LIMIT_BITS) !== 0 ? GROUP_FAILS_LIMIT : 0) | (given[p] === 1 ? GROUP_GIVEN : 0) | (hasValue ? 0 : GROUP_NO_VALUE);
+			counts[b]++;
+		}
+		bucket[p] = b;
+	}
+	// Nothing after the loop: code the first (on-stack-replaced) run never reached would make
+	// V8 drop the optimised loop at its end on every call.
+}

@@ -10,8 +10,8 @@ import type { CatalogueTable } from '$lib/junction/catalogue-table';
 import type { OperatingPoint } from '$lib/junction/operating-point';
 import type { RankResult, RankedPart } from '$lib/junction/rank-types';
 import { leakageBudget } from '$lib/projects/leakage-budget';
-import type { RankFlag, RankItem, RankKind, RankLifecycle, RankOperatingPoint, RankResponse, SpiceModel } from '$lib/schemas/rank';
 import { listedPart } from '$lib/catalogue/part-names';
+import type { RankFlag, RankItem, RankKind, RankLifecycle, RankOperatingPoint, RankResponse, SpiceModel } from '$lib/schemas/rank';
 
 /** What the ranked list needs to know about a part besides its models (the server's cache holds more). */
 export type ListedPart = {

@@ -16,7 +16,7 @@
  */
 import { CatalogueTable, SI_2019 } from '$lib/junction';
 import type { RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
-import { engineOperatingPoint, filterOf, rankListed, toItem } from '$lib/rank/rank-items';
+import { engineOperatingPoint, rankListed, toItem } from '$lib/rank/rank-items';
 import { modelCache, type CacheSnapshot, type CachedPart, type ModelCache } from './model-cache';
 
 /** A rank item for one part, with the model version the numbers came from. */
@@ -28,7 +28,6 @@ export { leakageBudget } from '$lib/projects/shortlist';
 
 // Filters, the engine operating point and the items are shared with the browser's ranking over the snapshot.
 export { engineOperatingPoint, filterOf } from '$lib/rank/rank-items';
-
 
 /** Ranks one snapshot (exported for benchmarks and tests that hold their own cache). */
 export function rankSnapshot(

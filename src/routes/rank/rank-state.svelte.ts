@@ -70,7 +70,7 @@ export class RankState {
 		return (op ? queryFromOperatingPoint(op) : queryFromFields(this.fields)).toString();
 	}
 
-	/** Rank in the browser from now on (the worker holds the snapshot); re-ranks what is on screen. */
+	/** Rank in the browser from now on (the worker holds the snapshot), or on the server again (null). */
 	rankInBrowser(ranker: BrowserRanker | null): void {
 		this.ranker = ranker;
 		// Fields changed while the snapshot loaded and their ranking is not shown yet: rank them here.

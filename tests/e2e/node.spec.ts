@@ -50,6 +50,9 @@ test('a designer builds a rails pair, ranks the catalogue in it and saves it to 
 	await page.goto('/node');
 	await expect(page.locator('[data-live="yes"]')).toBeVisible({ timeout: 90_000 });
 	await page.getByRole('link', { name: 'Pair to the rails' }).click();
+	// The preset arrives by navigation and replaces the form's fields: type only after it has.
+	await page.waitForURL(/preset=rail-pair/);
+	await page.waitForLoadState('networkidle');
 
 	// The rails and ranges typed as a designer writes them, SI prefixes and units included.
 	await page.getByLabel('Name of rail 1').fill('VPOS');

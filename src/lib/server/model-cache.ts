@@ -21,32 +21,17 @@ import { engineMaterial } from '$lib/catalogue/models';
 import type { Material } from '$lib/catalogue/vocabulary';
 import type { RankKind, RankLifecycle, SpiceModel } from '$lib/schemas/rank';
 import { MODEL_CHANNEL, PROJECT_CHANNEL } from './model-events';
+import type { ListedPart } from '$lib/rank/rank-items';
 
-/** What the ranking needs to know about a part besides its models. */
-export type CachedPart = {
-	id: number;
-	partNumber: string;
-	maker: string;
-	kind: RankKind;
-	package: string;
-	lifecycle: RankLifecycle;
-	material: string;
-	ratedReverseV: number | null;
-	ratedForwardA: number | null;
+/** What the ranking needs to know about a part besides its models: the listed part's facts, and the server's own. */
+export type CachedPart = ListedPart & {
 	modelVersion: number;
 	/** Measured on the bench, or only a given model. */
 	evidence: Evidence;
-	/** Each sample's unit label, in the order of record.samples (empty for a given model). */
-	sampleUnits: string[];
-	/** Lower-cased part number, maker and tags, for the text filter. */
-	search: string;
-	typical: SpiceModel;
 	/** The typical model as the engine predicts with it (material defaults, shunt factor). */
 	typicalModel: JunctionModel;
 	/** Where a given model came from (card, datasheet), when there is one. */
 	givenSource: string | null;
-	/** Where the CJO, VJ and M in its models come from (null: it has none). */
-	capacitanceSource: 'measured' | 'given' | null;
 	record: PartRecord;
 };
 

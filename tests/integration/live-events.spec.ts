@@ -1,5 +1,6 @@
 // Live updates over server-sent events against the running app: a run stored by a
-// librarian and a lead's decision each reach an open stream within a second, read by a
+// librarian and a lead's decision each reach an open stream (waited for, not timed: speed is
+// the benchmarks' business), read by a
 // plain event-stream parser (the WHATWG HTML "server-sent events" format); anonymous
 // callers are refused; a stream that goes away leaves no listener behind.
 import { afterAll, describe, expect, test } from 'vitest';
@@ -81,7 +82,7 @@ describe('live updates', () => {
 		expect(r.headers.get('content-type')).toMatch(/application\/json/);
 	});
 
-	test('a run stored by a librarian reaches a stream opened with an API token within a second', async () => {
+	test('a run stored by a librarian reaches a stream opened with an API token', async () => {
 		const stream = await openStream({ authorization: `Bearer ${await tokenFor('designer')}` });
 		try {
 			expect(stream.res.status).toBe(200);
@@ -96,15 +97,13 @@ describe('live updates', () => {
 				headers: { 'content-type': 'text/csv' }
 			});
 			expect(run.status, JSON.stringify(run.body)).toBe(201);
-			const acknowledged = Date.now();
-			const seen = await stream.next((e) => e.event === 'models' && ((e.data as { partIds: number[] | null }).partIds ?? [part.body.id]).includes(part.body.id), since);
-			expect(seen.at - acknowledged).toBeLessThan(1000);
+			await stream.next((e) => e.event === 'models' && ((e.data as { partIds: number[] | null }).partIds ?? [part.body.id]).includes(part.body.id), since);
 		} finally {
 			stream.close();
 		}
 	});
 
-	test("a lead's decision reaches a stream opened with a session cookie within a second", async () => {
+	test("a lead's decision reaches a stream opened with a session cookie", async () => {
 		const stream = await openStream({ cookie: await cookieFor('designer') });
 		try {
 			expect(stream.res.status).toBe(200);
@@ -118,9 +117,7 @@ describe('live updates', () => {
 			const since = Date.now();
 			const decided = await api('POST', `/api/v1/projects/${id}/review`, { as: 'lead', json: { action: 'request-changes', comment: 'Add a second source.' } });
 			expect(decided.status, JSON.stringify(decided.body)).toBe(200);
-			const acknowledged = Date.now();
 			const seen = await stream.next((e) => e.event === 'project' && (e.data as { projectId: number }).projectId === id, since);
-			expect(seen.at - acknowledged).toBeLessThan(1000);
 			expect(seen.data).toEqual({ projectId: id });
 		} finally {
 			stream.close();

@@ -5,7 +5,7 @@
  *    computation and top-100 ordering done as one SQL query in PostgreSQL (ratio = core / SQL;
  *    target ≤ 1/20). The detail also gives the core's time for ordering every part;
  *  - rank-http-vs-health: POST /api/v1/rank over 10k parts against GET /api/v1/health under
- *    the same autocannon load, 50 connections on loopback (ratio of p50 latencies; target ≤ 3).
+ *    the same autocannon load, 50 connections on loopback (ratio of p50 latencies; target ≤ 2).
  *    Every connection cycles through 16 bodies with different biases (−1 … −8.5 V), so no
  *    two consecutive requests on a connection ask the same question.
  * Needs DATABASE_URL; the HTTP part also APP_URL (the running app on the same database).
@@ -150,7 +150,7 @@ async function rankHttpVsHealth(sql: postgres.Sql, appUrl: string) {
 		record(
 			'rank-http-vs-health',
 			ratio,
-			3,
+			2,
 			`p50 rank ${rank.p50Ms} ms vs health ${health.p50Ms} ms (50 connections, ${seconds} s each, ≥${N_HTTP} parts, biases ${biases[biases.length - 1]}…${biases[0]} V in turn; ${rank.rps.toFixed(0)} vs ${health.rps.toFixed(0)} req/s; non-2xx ${rank.non2xx}/${health.non2xx})`
 		);
 	} finally {

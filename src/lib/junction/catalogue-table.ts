@@ -12,6 +12,7 @@ import { BIT_OVER_REVERSE_RATING, flagsFromBits, LIMIT_BITS, staticFlagsOf } fro
 import { flagPass, multiSampleStatistics, partLayout, type FlagInputs, type PartColumns, type PartLayout } from './rank-pass';
 import { CatalogueCaches, medianOfPrefix } from './catalogue-caches';
 import { BoundsOnDemand } from './bounds-on-demand';
+import { ShortList } from './rank-select';
 import { GROUP_FAILS_LIMIT as FAILS_LIMIT, GROUP_NO_VALUE as NO_VALUE, GROUP_UNLISTED as UNLISTED, orderGroups, RANK_GROUPS as GROUPS } from './rank-order';
 import type { CatalogueView, PartRecord, RankedPart, RankOptions, RankResult } from './rank-types';
 import { toleranceFactor } from './tolerance';
@@ -58,6 +59,9 @@ export class CatalogueTable {
 	private resultFlags = new Uint32Array(0);
 	private scratchKeys = new Float64Array(0);
 	private bounds!: BoundsOnDemand;
+	private shortList = new ShortList();
+	private scratchExcluded = new Int32Array(0);
+	private scratchBucket = new Uint8Array(0);
 	private caches!: CatalogueCaches;
 	private noise!: CatalogueNoise;
 	private factorCache = new Map<string, Float64Array>();
@@ -132,7 +136,9 @@ export class CatalogueTable {
 		this.scratchGroups = new Int32Array(n);
 		this.bucket = new Uint8Array(n);
 		this.scratchKeys = new Float64Array(n);
-		this.layout = partLayout(count, given, minMeasured);
+		this.scratchExcluded = new Int32Array(n);
+		this.scratchBucket = new Uint8Array(n);
+		this.layout = partLayout(start, count, given, minMeasured, ratedReverse);
 		this.bounds = new BoundsOnDemand(start, count, maxSamples);
 		this.caches = new CatalogueCaches(this.models, start, count, this.temps, tempOffsets, maxSamples);
 		this.noise = new CatalogueNoise(this.models, start, count, given, maxSamples);
@@ -203,32 +209,14 @@ export class CatalogueTable {
 		if (!reuse) drops = drops.slice();
 		const [dropHotV, dropColdV, dropWorstV] = [0, 1, 2].map((i) => drops.subarray(i * n, (i + 1) * n));
 		const [noiseTypical, noiseWorst, noiseBound] = columns.noise;
-		this.partPasses(op, cold, hot, hotI, include, constants, BASIS_INDEX[basis], factors, { typicalA, worstA, boundA, dropWorstV, capacitanceF, flags });
-		if (op.maxNoiseA_rtHz !== undefined)
-			this.noise.limitPass(
-				{ limit: op.maxNoiseA_rtHz, biasV: op.biasV, hot, currents: hotI, include, constants, basis, factors },
-				[noiseTypical, noiseWorst, noiseBound],
-				flags,
-				this.bucket,
-				this.counts
-			);
-		const counts = this.counts;
-		const excluded = counts[EXCLUDED] > 0 ? overRating(flags, include, counts[EXCLUDED]) : new Int32Array(0);
-		// Bounds are computed where the order needs them (bounds-on-demand.ts), then for every listed part.
-		const keyOf = (b: number, members: Int32Array, take: number) =>
-			b & NO_VALUE || basis === 'typical'
-				? typicalA
-				: basis === 'worst'
-					? worstA
-					: this.bounds.keys(members, take, hotI, factors, { boundA, worstA, typicalA }, this.scratchKeys);
-		const order = orderGroups(this.bucket, counts.subarray(0, GROUPS), UNLISTED, keyOf, typicalA, limit, this.scratchGroups, this.scratchKeys, this.layout.all);
-		this.bounds.settleAll(order, hotI, factors, boundA);
-		let ranked = 0;
-		let meetingLimits = 0;
-		for (let b = 0; b < GROUPS; b++) {
-			ranked += counts[b];
-			if ((b & FAILS_LIMIT) === 0) meetingLimits += counts[b];
-		}
+		const out: PartColumns = { typicalA, worstA, boundA, dropWorstV, capacitanceF, flags };
+		const inputs = this.partStatistics(op, cold, hot, hotI, include, constants, BASIS_INDEX[basis], factors, out);
+		// A short list without a noise limit (which needs every part's noise) is selected in one
+		// pass and only its parts are flagged (rank-select.ts); a long one is ordered in full.
+		const { order, excluded, ranked, meetingLimits } =
+			limit * 16 <= n && op.maxNoiseA_rtHz === undefined
+				? this.shortListed(inputs, hotI, factors, out, limit)
+				: this.orderedInFull(op, inputs, hot, hotI, constants, basis, factors, out, columns.noise, limit);
 		return {
 			order,
 			ranked,
@@ -305,12 +293,68 @@ export class CatalogueTable {
 		return k;
 	}
 
+	/** The best `limit` parts in one pass (rank-select.ts), then the flags of those alone. */
+	private shortListed(inputs: FlagInputs, hotI: Float64Array, factors: Float64Array, out: PartColumns, limit: number) {
+		const b = this.bounds;
+		const columns = { start: this.start, count: this.count, given: this.given, ratedReverse: this.ratedReverse, ratedForward: this.ratedForward };
+		const picked = this.shortList.select(inputs, this.layout, columns, b, hotI, factors, out, limit, this.scratchExcluded);
+		// The parts are counted already: the flag pass counts into scratch.
+		flagPass(inputs, this.layout, this.start, this.count, this.given, this.staticFlags, this.ratedReverse, this.ratedForward, b.least, b.pending, hotI, out, this.scratchBucket, new Int32Array(GROUPS + 1), EXCLUDED, picked.order);
+		const { order, ranked, failing } = picked;
+		// Listed parts show their bound whatever the basis.
+		b.settleAll(order, hotI, factors, out.boundA);
+		return { order, ranked, meetingLimits: ranked - failing, excluded: this.scratchExcluded.slice(0, picked.excludedCount) };
+	}
+
+	/** Every part flagged and grouped, the noise limit applied, then the groups ordered (rank-order.ts). */
+	private orderedInFull(
+		op: OperatingPoint,
+		inputs: FlagInputs,
+		hot: number,
+		hotI: Float64Array,
+		constants: PhysicalConstants,
+		basis: RankBasis,
+		factors: Float64Array,
+		out: PartColumns,
+		noise: Float64Array[],
+		limit: number
+	) {
+		const { typicalA, worstA, boundA, flags } = out;
+		const b = this.bounds;
+		const counts = this.counts;
+		flagPass(inputs, this.layout, this.start, this.count, this.given, this.staticFlags, this.ratedReverse, this.ratedForward, b.least, b.pending, hotI, out, this.bucket, counts, EXCLUDED);
+		if (op.maxNoiseA_rtHz !== undefined)
+			this.noise.limitPass(
+				{ limit: op.maxNoiseA_rtHz, biasV: op.biasV, hot, currents: hotI, include: inputs.include, constants, basis, factors },
+				noise,
+				flags,
+				this.bucket,
+				counts
+			);
+		const excluded = counts[EXCLUDED] > 0 ? overRating(flags, inputs.include, counts[EXCLUDED]) : new Int32Array(0);
+		// Bounds are computed where the order needs them (bounds-on-demand.ts), then for every listed part.
+		const keyOf = (g: number, members: Int32Array, take: number) =>
+			g & NO_VALUE || basis === 'typical'
+				? typicalA
+				: basis === 'worst'
+					? worstA
+					: b.keys(members, take, hotI, factors, { boundA, worstA, typicalA }, this.scratchKeys);
+		const order = orderGroups(this.bucket, counts.subarray(0, GROUPS), UNLISTED, keyOf, typicalA, limit, this.scratchGroups, this.scratchKeys, this.layout.all);
+		b.settleAll(order, hotI, factors, boundA);
+		let ranked = 0;
+		let meetingLimits = 0;
+		for (let g = 0; g < GROUPS; g++) {
+			ranked += counts[g];
+			if ((g & FAILS_LIMIT) === 0) meetingLimits += counts[g];
+		}
+		return { order, excluded, ranked, meetingLimits };
+	}
+
 	/**
-	 * The per-part passes of `rank` (rank-pass.ts): sample statistics, the capacitance where
-	 * a limit needs it, then flags and each listed part's rank group in `bucket` with
-	 * `counts` per group (and excluded parts in counts[EXCLUDED]).
+	 * The per-part statistics of `rank` (rank-pass.ts) and the capacitance where a limit
+	 * needs it; returns what the flag and group passes read.
 	 */
-	private partPasses(
+	private partStatistics(
 		op: OperatingPoint,
 		cold: number,
 		hot: number,
@@ -320,18 +364,17 @@ export class CatalogueTable {
 		basis: number,
 		factors: Float64Array,
 		out: PartColumns
-	): void {
+	): FlagInputs {
 		const maxLeak = op.maxLeakageA ?? Infinity;
-		const layout = this.layout;
 		const { typicalA, worstA, boundA, capacitanceF } = out;
-		multiSampleStatistics(layout.multiples, this.start, this.count, this.given, hotI, this.scratchSort, basis === 0, maxLeak, this.bounds, factors, typicalA, worstA, boundA);
+		multiSampleStatistics(this.layout.multiples, this.start, this.count, this.given, hotI, this.scratchSort, basis === 0, maxLeak, this.bounds, factors, typicalA, worstA, boundA);
 		const maxCap = op.maxCapacitanceF;
 		if (maxCap !== undefined) {
 			const mid = 0.5 * (hot + cold);
 			for (let p = 0; p < this.parts.length; p++)
 				if (this.hasCjo[p] && (!include || include[p] !== 0)) capacitanceF[p] = this.medianCapacitance(p, op.biasV, mid, constants);
 		}
-		const inputs: FlagInputs = {
+		return {
 			basis,
 			maxLeak,
 			maxDrop: op.clampCurrentA !== undefined ? (op.maxForwardDropV ?? Infinity) : Infinity,
@@ -345,8 +388,6 @@ export class CatalogueTable {
 			farCold: this.caches.farAt(cold),
 			farHot: this.caches.farAt(hot)
 		};
-		const b = this.bounds;
-		flagPass(inputs, layout, this.start, this.count, this.given, this.staticFlags, this.ratedReverse, this.ratedForward, b.least, b.pending, hotI, out, this.bucket, this.counts, EXCLUDED);
 	}
 
 	/**

@@ -24,7 +24,7 @@ export function rankGroup(failsLimit: boolean, given: boolean, hasValue: boolean
 const LOW_WORD = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 0 : 1;
 
 /** Numeric order with NaN after every number (the sort key order of `orderByKey`). */
-function compareNumbers(x: number, y: number): number {
+export function compareNumbers(x: number, y: number): number {
 	if (x < y) return -1;
 	if (x > y) return 1;
 	if (x === y) return 0;

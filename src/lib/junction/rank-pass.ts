@@ -25,29 +25,43 @@ import { GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE, GROUP_UNLISTED } from '
 export interface PartLayout {
 	/** Parts with two or more samples, in index order. */
 	multiples: Int32Array;
+	/** Parts with one sample, in index order, and that sample's index. */
+	singles: Int32Array;
+	singleSample: Int32Array;
 	/** 1 for a measured part with two or more samples: it has a statistical bound. */
 	boundable: Uint8Array;
 	/** A tenth of the least measured |current| [A]: typical leakage below it is an extrapolation. */
 	extrapolationA: Float64Array;
 	/** 0 … n − 1: the members of a group that holds every part. */
 	all: Int32Array;
+	/** The least reverse rating of any part [V] (Infinity: none rated). */
+	leastReverseRatingV: number;
 }
 
-export function partLayout(count: Int32Array, given: Uint8Array, minMeasuredA: Float64Array): PartLayout {
+export function partLayout(start: Int32Array, count: Int32Array, given: Uint8Array, minMeasuredA: Float64Array, ratedReverseV: Float64Array): PartLayout {
 	const n = count.length;
 	let multiples = 0;
 	for (let p = 0; p < n; p++) if (count[p] > 1) multiples++;
 	const layout: PartLayout = {
 		multiples: new Int32Array(multiples),
+		singles: new Int32Array(n - multiples),
+		singleSample: new Int32Array(n - multiples),
 		boundable: new Uint8Array(n),
 		extrapolationA: new Float64Array(n),
-		all: Int32Array.from({ length: n }, (_, p) => p)
+		all: Int32Array.from({ length: n }, (_, p) => p),
+		leastReverseRatingV: Infinity
 	};
 	let m = 0;
+	let one = 0;
 	for (let p = 0; p < n; p++) {
 		if (count[p] > 1) layout.multiples[m++] = p;
+		else {
+			layout.singles[one] = p;
+			layout.singleSample[one++] = start[p];
+		}
 		layout.boundable[p] = given[p] === 0 && count[p] >= 2 ? 1 : 0;
 		layout.extrapolationA[p] = minMeasuredA[p] / 10;
+		if (ratedReverseV[p] < layout.leastReverseRatingV) layout.leastReverseRatingV = ratedReverseV[p];
 	}
 	return layout;
 }
@@ -142,7 +156,8 @@ export interface PartColumns {
  * when filtered out or left out over its reverse rating), with `counts` per group and the
  * parts left out over their rating in counts[excludedAt]. Parts with several samples have
  * their statistics from `multiSampleStatistics` already. A limit the operating point does
- * not state is not looked at (its column is not read).
+ * not state is not looked at (its column is not read). With `parts`, only those parts are
+ * flagged (and counted).
  */
 export function flagPass(
 	x: FlagInputs,
@@ -159,7 +174,8 @@ export function flagPass(
 	out: PartColumns,
 	bucket: Uint8Array,
 	counts: Int32Array,
-	excludedAt: number
+	excludedAt: number,
+	parts?: Int32Array
 ): void {
 	const { basis, maxLeak, maxDrop, clampA, maxCap, reverseV, marginV, keepOverRating, include, farCold, farHot } = x;
 	const { typicalA, worstA, boundA, dropWorstV, capacitanceF, flags } = out;
@@ -169,8 +185,23 @@ export function flagPass(
 	const checkForward = clampA > 0;
 	const checkCap = maxCap !== Infinity;
 	const n = flags.length;
+	// Imported constants copied to locals: a module loader that keeps live bindings (tsx, the
+	// dev server) reads each through a getter, once per part per flag, which costs more than the pass.
+	const [CUR_X, TEMP_X, LEAK, DROP, FWD, CAP, REV, LIMITS] = [
+		BIT_CURRENT_EXTRAPOLATED,
+		BIT_TEMPERATURE_EXTRAPOLATED,
+		BIT_OVER_LEAKAGE_TARGET,
+		BIT_FORWARD_DROP_OVER_LIMIT,
+		BIT_OVER_FORWARD_RATING,
+		BIT_OVER_CAPACITANCE_LIMIT,
+		BIT_OVER_REVERSE_RATING,
+		LIMIT_BITS
+	];
+	const [UNLISTED, FAILS, GIVEN, NO_VALUE] = [GROUP_UNLISTED, GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE];
 	counts.fill(0);
-	for (let p = 0; p < n; p++) {
+	const m = parts ? parts.length : n;
+	for (let i = 0; i < m; i++) {
+		const p = parts ? parts[i] : i;
 		let typical: number;
 		let worst: number;
 		if (count[p] === 1) {
@@ -186,22 +217,22 @@ export function flagPass(
 		const hasValue = basis === 0 ? boundable[p] === 1 : basis === 1 ? worst === worst : typical === typical;
 		const value = basis === 0 ? (hasValue ? (pending[p] ? least[p] : boundA[p]) : NaN) : basis === 1 ? worst : typical;
 		let f = staticFlags[p];
-		if (typical < extrapolationA[p]) f |= BIT_CURRENT_EXTRAPOLATED;
-		if (farCold[p] | farHot[p]) f |= BIT_TEMPERATURE_EXTRAPOLATED;
+		if (typical < extrapolationA[p]) f |= CUR_X;
+		if (farCold[p] | farHot[p]) f |= TEMP_X;
 		// Without a value on the basis (no bound), the budget is held against the worst sample.
-		if ((hasValue ? value : worst) > maxLeak) f |= BIT_OVER_LEAKAGE_TARGET;
-		if (checkDrop && dropWorstV[p] > maxDrop) f |= BIT_FORWARD_DROP_OVER_LIMIT;
-		if (checkForward && clampA > ratedForward[p]) f |= BIT_OVER_FORWARD_RATING;
+		if ((hasValue ? value : worst) > maxLeak) f |= LEAK;
+		if (checkDrop && dropWorstV[p] > maxDrop) f |= DROP;
+		if (checkForward && clampA > ratedForward[p]) f |= FWD;
 		// NaN (not computed: no CJO, or filtered out) never exceeds the limit.
-		if (checkCap && capacitanceF[p] > maxCap) f |= BIT_OVER_CAPACITANCE_LIMIT;
+		if (checkCap && capacitanceF[p] > maxCap) f |= CAP;
 		const over = reverseV > ratedReverse[p] - marginV;
-		if (over) f |= BIT_OVER_REVERSE_RATING;
+		if (over) f |= REV;
 		flags[p] = f;
-		let b = GROUP_UNLISTED;
-		if (include && include[p] === 0) b = GROUP_UNLISTED;
+		let b = UNLISTED;
+		if (include && include[p] === 0) b = UNLISTED;
 		else if (over && !keepOverRating) counts[excludedAt]++;
 		else {
-			b = ((f & LIMIT_BITS) !== 0 ? GROUP_FAILS_LIMIT : 0) | (given[p] === 1 ? GROUP_GIVEN : 0) | (hasValue ? 0 : GROUP_NO_VALUE);
+			b = ((f & LIMITS) !== 0 ? FAILS : 0) | (given[p] === 1 ? GIVEN : 0) | (hasValue ? 0 : NO_VALUE);
 			counts[b]++;
 		}
 		bucket[p] = b;

@@ -71,7 +71,8 @@ export interface RankedPart {
 export interface RankOptions {
 	/**
 	 * Only the best `limit` parts are put in `order` (a partial selection, cheaper than
-	 * ordering every part); the others are still evaluated and counted in `ranked`.
+	 * ordering every part); the others are still evaluated and counted in `ranked`. A short
+	 * list (at most a sixteenth of the parts) has columns filled in for its parts only.
 	 */
 	limit?: number;
 	/**
@@ -102,6 +103,11 @@ export interface RankResult {
 	basis: RankBasis;
 	coverage: number;
 	confidence: number;
+	/**
+	 * Typical and worst leakage [A] and `flags` per part: of every part, except for a short
+	 * list (a `limit` of at most a sixteenth of the parts, no noise limit), which fills them in
+	 * for the parts in `order` only (rank-select.ts).
+	 */
 	typicalA: Float64Array;
 	worstA: Float64Array;
 	/**

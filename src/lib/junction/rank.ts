@@ -9,6 +9,7 @@
  *  - bounds-on-demand.ts statistical bounds computed only where the order or the list needs them;
  *  - catalogue-noise.ts  the current-noise figures and the noise limit;
  *  - rank-order.ts       ordering and selection of part indices by key columns;
+ *  - rank-select.ts      a short list selected in one pass, only its parts flagged;
  *  - tolerance.ts        the noncentral-t tolerance factor and the log-normal bound;
  *  - rank-types.ts       records in, columns and rows out.
  *

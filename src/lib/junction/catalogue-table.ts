@@ -8,8 +8,8 @@ import { SI_2019, type PhysicalConstants } from './constants';
 import type { JunctionModel } from './model';
 import { ModelTable } from './model-table';
 import { judgementOf, temperatureEnds, type OperatingPoint, type RankBasis } from './operating-point';
-import { BIT_OVER_REVERSE_RATING, flagsFromBits, LIMIT_BITS, staticFlagsOf } from './rank-flags';
-import { flagPass, multiSampleStatistics, partLayout, type FlagInputs, type PartColumns, type PartLayout } from './rank-pass';
+import { flagsFromBits, LIMIT_BITS, staticFlagsOf } from './rank-flags';
+import { flagPass, multiSampleStatistics, overRating, partLayout, type FlagInputs, type PartColumns, type PartLayout } from './rank-pass';
 import { CatalogueCaches, medianOfPrefix } from './catalogue-caches';
 import { BoundsOnDemand } from './bounds-on-demand';
 import { ShortList } from './rank-select';
@@ -40,7 +40,6 @@ export class CatalogueTable {
 	/** 1 for a part with only a given model. */
 	private given!: Uint8Array;
 	private minMeasured!: Float64Array;
-	private tempOffsets!: Int32Array;
 	private temps!: Float64Array;
 	private ratedReverse!: Float64Array;
 	private ratedForward!: Float64Array;
@@ -127,7 +126,6 @@ export class CatalogueTable {
 		this.ratedReverse = ratedReverse;
 		this.ratedForward = ratedForward;
 		this.hasCjo = hasCjo;
-		this.tempOffsets = tempOffsets;
 		this.temps = Float64Array.from(temps);
 		this.boundCounts = [...boundCounts].sort((a, b) => a - b);
 		this.maxSamples = maxSamples;
@@ -446,12 +444,4 @@ export class CatalogueTable {
 		for (let k = 0; k < c; k++) sort[k] = this.models.capacitance(this.start[p] + k, biasV, temperatureC, constants);
 		return medianOfPrefix(sort, c);
 	}
-}
-
-/** The `count` parts flagged over their reverse rating (among the included ones), in index order. */
-function overRating(flags: Uint32Array, include: Uint8Array | undefined, count: number): Int32Array {
-	const out = new Int32Array(count);
-	let e = 0;
-	for (let p = 0; p < flags.length; p++) if (flags[p] & BIT_OVER_REVERSE_RATING && !(include && include[p] === 0)) out[e++] = p;
-	return out;
 }

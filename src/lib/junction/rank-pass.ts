@@ -240,3 +240,11 @@ export function flagPass(
 	// Nothing after the loop: code the first (on-stack-replaced) run never reached would make
 	// V8 drop the optimised loop at its end on every call.
 }
+
+/** The `count` parts flagged over their reverse rating (among the included ones), in index order. */
+export function overRating(flags: Uint32Array, include: Uint8Array | undefined, count: number): Int32Array {
+	const out = new Int32Array(count);
+	let e = 0;
+	for (let p = 0; p < flags.length; p++) if (flags[p] & BIT_OVER_REVERSE_RATING && !(include && include[p] === 0)) out[e++] = p;
+	return out;
+}

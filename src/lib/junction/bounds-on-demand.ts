@@ -13,6 +13,9 @@ export class BoundsOnDemand {
 	readonly pending: Uint8Array;
 	/** Part p's least sample |I| while its bound is pending (0 when unknown, e.g. a NaN sample). */
 	readonly least: Float64Array;
+	/** Parts whose bound a pass found due now (`dueCount[0]` of them), for `settleDue`. */
+	readonly due: Int32Array;
+	readonly dueCount = new Int32Array(1);
 	private readonly key: Float64Array;
 	private readonly logs: Float64Array;
 
@@ -27,6 +30,7 @@ export class BoundsOnDemand {
 		this.pending = new Uint8Array(start.length);
 		this.least = new Float64Array(start.length);
 		this.key = new Float64Array(start.length);
+		this.due = new Int32Array(start.length);
 		this.logs = new Float64Array(maxSamples);
 	}
 
@@ -45,6 +49,11 @@ export class BoundsOnDemand {
 		for (let k = 0; k < c; k++) ss += (y[k] - mean) * (y[k] - mean);
 		this.pending[p] = 0;
 		return (boundA[p] = Math.exp(mean + factors[c] * Math.sqrt(ss / (c - 1))));
+	}
+
+	/** Settles the parts a pass found due. */
+	settleDue(hotI: Float64Array, factors: Float64Array, boundA: Float64Array): void {
+		for (let i = 0; i < this.dueCount[0]; i++) this.settle(this.due[i], hotI, factors, boundA);
 	}
 
 	/** Settles every pending part among `parts` (the listed ones show their bound). */

@@ -365,7 +365,8 @@ export class CatalogueTable {
 	): FlagInputs {
 		const maxLeak = op.maxLeakageA ?? Infinity;
 		const { typicalA, worstA, boundA, capacitanceF } = out;
-		multiSampleStatistics(this.layout.multiples, this.start, this.count, this.given, hotI, this.scratchSort, basis === 0, maxLeak, this.bounds, factors, typicalA, worstA, boundA);
+		multiSampleStatistics(this.layout.multiples, this.start, this.count, this.given, hotI, this.scratchSort, basis === 0, maxLeak, this.bounds, typicalA, worstA, boundA);
+		this.bounds.settleDue(hotI, factors, boundA);
 		const maxCap = op.maxCapacitanceF;
 		if (maxCap !== undefined) {
 			const mid = 0.5 * (hot + cold);

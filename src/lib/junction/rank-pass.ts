@@ -68,9 +68,10 @@ export function partLayout(start: Int32Array, count: Int32Array, given: Uint8Arr
 
 /**
  * Several samples: median, largest, and for a measured part the bound, left pending (NaN
- * in boundA; bounds-on-demand.ts) unless the leakage budget needs it now: ranked on the
- * bound (`onBound`) with a budget at or above the part's least sample. A part whose
- * samples all leak exactly zero (zero bias) has a zero bound.
+ * in boundA; bounds-on-demand.ts); when the leakage budget needs it now — ranked on the
+ * bound (`onBound`) with a budget at or above the part's least sample — the part is due,
+ * and `bounds.settleDue` must follow. A part whose samples all leak exactly zero (zero
+ * bias) has a zero bound.
  */
 export function multiSampleStatistics(
 	multiples: Int32Array,
@@ -82,13 +83,17 @@ export function multiSampleStatistics(
 	onBound: boolean,
 	maxLeak: number,
 	bounds: BoundsOnDemand,
-	factors: Float64Array,
 	typicalA: Float64Array,
 	worstA: Float64Array,
 	boundA: Float64Array
 ): void {
 	const least = bounds.least;
 	const pending = bounds.pending;
+	const due = bounds.due;
+	const dueCount = bounds.dueCount;
+	dueCount[0] = 0;
+	// Imported function held in a local (a loader with live bindings reads it through a getter).
+	const median = medianOfPrefix;
 	for (let i = 0; i < multiples.length; i++) {
 		const p = multiples[i];
 		const s0 = start[p];
@@ -99,7 +104,7 @@ export function multiSampleStatistics(
 			sort[k] = a;
 			if (a > worst) worst = a;
 		}
-		const typical = medianOfPrefix(sort, c);
+		const typical = median(sort, c);
 		let bound = NaN;
 		pending[p] = 0;
 		if (given[p] === 0) {
@@ -107,8 +112,11 @@ export function multiSampleStatistics(
 			const low = sort[0];
 			if (worst === 0) bound = 0;
 			else if (onBound && maxLeak !== Infinity && !(low > maxLeak)) {
+				// Due now: the caller settles it after this pass (`settleDue`), as a call in this
+				// loop would make V8 reload every column on every part.
 				least[p] = low;
-				bound = bounds.settle(p, hotI, factors, boundA);
+				pending[p] = 1;
+				due[dueCount[0]++] = p;
 			} else {
 				least[p] = low === low ? low : 0;
 				pending[p] = 1;

@@ -175,10 +175,18 @@ export class ShortList {
 
 	private swap(i: number, j: number): void {
 		const { part, group, key, tie } = this;
-		[part[i], part[j]] = [part[j], part[i]];
-		[group[i], group[j]] = [group[j], group[i]];
-		[key[i], key[j]] = [key[j], key[i]];
-		[tie[i], tie[j]] = [tie[j], tie[i]];
+		const p = part[i];
+		const g = group[i];
+		const k = key[i];
+		const t = tie[i];
+		part[i] = part[j];
+		group[i] = group[j];
+		key[i] = key[j];
+		tie[i] = tie[j];
+		part[j] = p;
+		group[j] = g;
+		key[j] = k;
+		tie[j] = t;
 	}
 
 	/** Max-heap: the entry listed last at the root. */

@@ -21,6 +21,21 @@ import { medianOfPrefix } from './catalogue-caches';
 import type { BoundsOnDemand } from './bounds-on-demand';
 import { GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE, GROUP_UNLISTED } from './rank-order';
 
+// Imported names held in module constants, read once: a loader with live bindings (tsx, the
+// dev server) reads an imported name through a getter at every use, here once per part per flag.
+const [CUR_X, TEMP_X, LEAK, DROP, FWD, CAP, REV, LIMITS] = [
+	BIT_CURRENT_EXTRAPOLATED,
+	BIT_TEMPERATURE_EXTRAPOLATED,
+	BIT_OVER_LEAKAGE_TARGET,
+	BIT_FORWARD_DROP_OVER_LIMIT,
+	BIT_OVER_FORWARD_RATING,
+	BIT_OVER_CAPACITANCE_LIMIT,
+	BIT_OVER_REVERSE_RATING,
+	LIMIT_BITS
+];
+const [UNLISTED, FAILS, GIVEN, NO_VALUE] = [GROUP_UNLISTED, GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE];
+const median = medianOfPrefix;
+
 /** Facts about the parts that no operating point changes, prepared with the table. */
 export interface PartLayout {
 	/** Parts with two or more samples, in index order. */
@@ -92,8 +107,6 @@ export function multiSampleStatistics(
 	const due = bounds.due;
 	const dueCount = bounds.dueCount;
 	dueCount[0] = 0;
-	// Imported function held in a local (a loader with live bindings reads it through a getter).
-	const median = medianOfPrefix;
 	for (let i = 0; i < multiples.length; i++) {
 		const p = multiples[i];
 		const s0 = start[p];
@@ -193,19 +206,6 @@ export function flagPass(
 	const checkForward = clampA > 0;
 	const checkCap = maxCap !== Infinity;
 	const n = flags.length;
-	// Imported constants copied to locals: a module loader that keeps live bindings (tsx, the
-	// dev server) reads each through a getter, once per part per flag, which costs more than the pass.
-	const [CUR_X, TEMP_X, LEAK, DROP, FWD, CAP, REV, LIMITS] = [
-		BIT_CURRENT_EXTRAPOLATED,
-		BIT_TEMPERATURE_EXTRAPOLATED,
-		BIT_OVER_LEAKAGE_TARGET,
-		BIT_FORWARD_DROP_OVER_LIMIT,
-		BIT_OVER_FORWARD_RATING,
-		BIT_OVER_CAPACITANCE_LIMIT,
-		BIT_OVER_REVERSE_RATING,
-		LIMIT_BITS
-	];
-	const [UNLISTED, FAILS, GIVEN, NO_VALUE] = [GROUP_UNLISTED, GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE];
 	counts.fill(0);
 	const m = parts ? parts.length : n;
 	for (let i = 0; i < m; i++) {
@@ -253,6 +253,6 @@ export function flagPass(
 export function overRating(flags: Uint32Array, include: Uint8Array | undefined, count: number): Int32Array {
 	const out = new Int32Array(count);
 	let e = 0;
-	for (let p = 0; p < flags.length; p++) if (flags[p] & BIT_OVER_REVERSE_RATING && !(include && include[p] === 0)) out[e++] = p;
+	for (let p = 0; p < flags.length; p++) if (flags[p] & REV && !(include && include[p] === 0)) out[e++] = p;
 	return out;
 }

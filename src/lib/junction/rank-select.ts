@@ -18,6 +18,11 @@ import type { BoundsOnDemand } from './bounds-on-demand';
 import type { FlagInputs, PartColumns, PartLayout } from './rank-pass';
 import { compareNumbers, GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE } from './rank-order';
 
+// Imported names held in module constants, read once: a loader with live bindings (tsx, the
+// dev server) reads an imported name through a getter at every use.
+const [FAILS, GIVEN, NO_VALUE] = [GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE];
+const compare = compareNumbers;
+
 /** A part's state before its leakage is looked at (`ShortList.states`). */
 const LISTED = 0;
 const FAILS_OTHER = 1;
@@ -142,7 +147,7 @@ export class ShortList {
 		const value = basis === 0 ? (hasValue ? (isPending ? bounds.least[p] : out.boundA[p]) : NaN) : basis === 1 ? raw : typical;
 		const st = this.lastStates[p];
 		const fails = st === FAILS_OTHER || (hasValue ? value : raw) > x.maxLeak;
-		const g = (fails ? GROUP_FAILS_LIMIT : 0) | (columns.given[p] === 1 ? GROUP_GIVEN : 0) | (hasValue ? 0 : GROUP_NO_VALUE);
+		const g = (fails ? FAILS : 0) | (columns.given[p] === 1 ? GIVEN : 0) | (hasValue ? 0 : NO_VALUE);
 		const key = isPending ? bounds.settle(p, hotI, factors, out.boundA) : hasValue ? value : typical;
 		if (this.size < take) {
 			const at = this.size++;
@@ -164,7 +169,7 @@ export class ShortList {
 	/** Whether (g, key, tie, p) comes before heap entry i in the rank order (NaN after every number). */
 	private before(g: number, key: number, tie: number, p: number, i: number): boolean {
 		if (g !== this.group[i]) return g < this.group[i];
-		const c = compareNumbers(key, this.key[i]) || compareNumbers(tie, this.tie[i]);
+		const c = compare(key, this.key[i]) || compare(tie, this.tie[i]);
 		return c !== 0 ? c < 0 : p < this.part[i];
 	}
 
@@ -253,8 +258,6 @@ function gather(
 	tally: Int32Array
 ): number {
 	const { typicalA, worstA, boundA } = columns;
-	// Imported constants copied to locals (a loader with live bindings reads each through a getter).
-	const [FAILS, GIVEN, NO_VALUE] = [GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE];
 	let m = 0;
 	for (let i = from; i < list.length; i++) {
 		const p = list[i];
@@ -299,7 +302,6 @@ function gatherSingles(
 	cap: number,
 	tally: Int32Array
 ): number {
-	const [FAILS, GIVEN, NO_VALUE] = [GROUP_FAILS_LIMIT, GROUP_GIVEN, GROUP_NO_VALUE];
 	const onBound = basis === 0;
 	const onWorst = basis === 1;
 	let m = 0;

@@ -32,8 +32,9 @@ const FILTERED = 3;
 const EXCLUDED_AT = 0;
 const FAILING_AT = 1;
 const FILTERED_AT = 2;
-/** Most parts gathered in one batch. */
+/** Most parts gathered in one batch, and in a batch once the list is full. */
 const BATCH = 4096;
+const LATER_BATCH = 16;
 /** Group above every listed one: the threshold while the list is not full. */
 const ANY_GROUP = 255;
 
@@ -76,7 +77,6 @@ export class ShortList {
 		this.lastStates = state;
 		this.reset(take);
 		const c = this.candidates;
-		const cap = Math.min(take, c.length);
 		// The parts with one sample, then those with several: each list in batches.
 		for (const list of [layout.singles, layout.multiples]) {
 			const single = list === layout.singles;
@@ -84,6 +84,9 @@ export class ShortList {
 				// A list of none takes no part: no group comes before −1.
 				const topGroup = take === 0 ? -1 : this.size === take ? this.group[0] : ANY_GROUP;
 				const topKey = this.size === take ? this.key[0] : Infinity;
+				// Until the list is full a batch fills it; then small batches keep the bar close to
+				// the list's last entry (fewer parts offered that the heap then turns away).
+				const cap = Math.min(this.size < take ? take - this.size : LATER_BATCH, c.length);
 				const m = single
 					? gatherSingles(x.basis, x.maxLeak, state, list, layout.singleSample, given, hotI, from, topGroup, topKey, c, cap, this.tally)
 					: gather(x.basis, x.maxLeak, state, list, given, layout.boundable, bounds.pending, bounds.least, out, from, topGroup, topKey, c, cap, this.tally);

@@ -10,6 +10,7 @@
  * Run in Node's V8, the engine Chromium runs too, on the same machine.
  */
 import { createModel } from '../../src/lib/junction';
+import { gzipSync } from 'node:zlib';
 import { encodeSnapshot, type SnapshotPart } from '../../src/lib/junction/model-snapshot';
 import { gaussian, mulberry32 } from '../../src/lib/random';
 import { SnapshotCatalogue } from '../../src/lib/rank/snapshot-catalogue';
@@ -59,7 +60,7 @@ function median(xs: number[]) {
 	return s[s.length >> 1];
 }
 
-export type SnapshotCost = { parts: number; bytes: number; loadMs: number; rankMs: number };
+export type SnapshotCost = { parts: number; bytes: number; gzipBytes: number; loadMs: number; rankMs: number };
 
 export function snapshotCost(n: number): SnapshotCost {
 	const bytes = encodeSnapshot({ version: 'bench', partial: false, parts: scaleSnapshotParts(n), catalogueIds: new Int32Array(0) });
@@ -78,14 +79,15 @@ export function snapshotCost(n: number): SnapshotCost {
 		catalogue.rank(op, 100, 5);
 		if (k >= 3) ranks.push(performance.now() - t0);
 	}
-	return { parts: n, bytes: bytes.byteLength, loadMs: median(loads), rankMs: median(ranks) };
+	// As the endpoint sends it to a browser (gzip, zlib's default level).
+	return { parts: n, bytes: bytes.byteLength, gzipBytes: gzipSync(bytes).byteLength, loadMs: median(loads), rankMs: median(ranks) };
 }
 
 export async function runSnapshotBenchmarks(): Promise<SnapshotCost[]> {
 	const costs = SIZES.map(snapshotCost);
 	const atLimit = costs.find((c) => c.parts === SNAPSHOT_MAX_PARTS) ?? snapshotCost(SNAPSHOT_MAX_PARTS);
 	const mb = (b: number) => (b / 1e6).toFixed(1);
-	const detail = costs.map((c) => `${c.parts / 1000}k parts: ${mb(c.bytes)} MB, load ${c.loadMs.toFixed(0)} ms, re-rank ${c.rankMs.toFixed(1)} ms`).join('; ');
+	const detail = costs.map((c) => `${c.parts / 1000}k parts: ${mb(c.bytes)} MB (${mb(c.gzipBytes)} MB gzipped), load ${c.loadMs.toFixed(0)} ms, re-rank ${c.rankMs.toFixed(1)} ms`).join('; ');
 	record(
 		'snapshot-rank-vs-frame',
 		atLimit.rankMs / FRAME_MS,

@@ -3,6 +3,8 @@
 // server's own POST /api/v1/rank, on the demo catalogue and on one grown with the scale
 // seed's invented parts: the same numbers (≤ 1e-12 relative) and the same order for every
 // basis of ranking. Then the snapshot's caching and its answers of only what changed.
+import { get as httpGet, type IncomingHttpHeaders } from 'node:http';
+import { gunzipSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { gaussian, mulberry32 } from '../../src/lib/random';
 import { SnapshotCatalogue } from '../../src/lib/rank/snapshot-catalogue';
@@ -77,7 +79,11 @@ describe('ranking over the model snapshot', () => {
 			}
 			await seen(maker.toLowerCase(), ids.length);
 		});
-		afterAll(() => deleteParts(ids));
+		// Gone from the server's cache before the next tests read the snapshot's version.
+		afterAll(async () => {
+			await deleteParts(ids);
+			await seen(maker.toLowerCase(), 0);
+		});
 
 		test('the same numbers and order as the server, every basis, with and without a text filter', async () => {
 			const catalogue = await browserCatalogue();
@@ -98,6 +104,32 @@ describe('the snapshot endpoint', () => {
 		const again = await snapshot('', { 'if-none-match': etag! });
 		expect(again.status).toBe(304);
 		expect(await again.text()).toBe('');
+	});
+
+	test('is sent gzipped to a client that takes gzip, the same bytes once inflated, under its own tag', async () => {
+		// node:http, which (unlike fetch) hands over the body as sent.
+		const raw = (acceptEncoding: string) =>
+			tokenFor('designer').then(
+				(token) =>
+					new Promise<{ headers: IncomingHttpHeaders; body: Buffer }>((resolve, reject) => {
+						const req = httpGet(`${APP_URL}/api/v1/rank/snapshot`, { headers: { authorization: `Bearer ${token}`, 'accept-encoding': acceptEncoding } }, (res) => {
+							const chunks: Buffer[] = [];
+							res.on('data', (c: Buffer) => chunks.push(c));
+							res.on('end', () => resolve({ headers: res.headers, body: Buffer.concat(chunks) }));
+						});
+						req.on('error', reject);
+					})
+			);
+		const plain = await raw('identity');
+		const zipped = await raw('gzip, deflate');
+		expect(plain.headers['content-encoding']).toBeUndefined();
+		expect(zipped.headers['content-encoding']).toBe('gzip');
+		expect(zipped.headers.vary).toContain('Accept-Encoding');
+		expect(gunzipSync(zipped.body).equals(plain.body)).toBe(true);
+		expect(zipped.body.length).toBeLessThan(plain.body.length / 2);
+		expect(zipped.headers.etag).not.toBe(plain.headers.etag);
+		const again = await snapshot('', { 'accept-encoding': 'gzip', 'if-none-match': zipped.headers.etag! });
+		expect(again.status).toBe(304);
 	});
 
 	test('answers only what changed: ?since= and ?parts=, and notices a part taken out', async () => {

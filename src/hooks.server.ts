@@ -154,7 +154,13 @@ const apiErrors: Handle = async ({ event, resolve }) => {
 	return asJsonApiError(response, event.request.method, event.url.pathname);
 };
 
-export const handle = sequence(securityHeaders, apiErrors, originCheck, authReturnAddress, authHandle, identify, gate);
+/**
+ * Auth.js answers its own addresses (sign-in links, sign-out); the app identifies people
+ * itself (identify, below) and never asks Auth.js for the session, so other requests skip it.
+ */
+const authAddresses: Handle = (input) => (input.event.url.pathname.startsWith('/auth/') ? authHandle(input) : input.resolve(input.event));
+
+export const handle = sequence(securityHeaders, apiErrors, originCheck, authReturnAddress, authAddresses, identify, gate);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (isDatabaseDown(error)) {

@@ -15,6 +15,7 @@ import { closeModelCache } from '$lib/server/model-cache';
 import { startPruning, stopPruning } from '$lib/server/prune';
 import * as people from '$lib/server/people';
 import * as tokens from '$lib/server/tokens';
+import { tokenCache } from '$lib/server/token-cache';
 
 /** Stops the process with a message an operator can act on (no stack trace). */
 function refuseToStart(message: string): never {
@@ -44,6 +45,7 @@ export const init: ServerInit = async () => {
 		stopOutboxWorker();
 		stopPruning();
 		await closeModelCache();
+		await tokenCache.close();
 		await client.end({ timeout: 5 });
 	});
 };

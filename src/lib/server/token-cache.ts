@@ -17,7 +17,7 @@
 import { randomBytes } from 'node:crypto';
 import { sql as raw } from 'drizzle-orm';
 import type { Sql } from 'postgres';
-import { client, listeningClient, type DbOrTx } from './db';
+import { listeningClient, type DbOrTx } from './db';
 import type { Person } from './people';
 
 /** PostgreSQL channel on which a change to a person's access is announced (payload: their id). */
@@ -119,7 +119,10 @@ class TokenCache {
 				await this.listen();
 			}
 			this.pingSent++;
-			await client`select pg_notify(${PEOPLE_CHANNEL}, ${this.pingPrefix + this.pingSent})`;
+			// Sent on the listener's own client, not the app's pool: a busy pool queues it behind
+			// requests, which would make a listener that hears well look deaf.
+			const listener = this.listener;
+			if (listener) await listener`select pg_notify(${PEOPLE_CHANNEL}, ${this.pingPrefix + this.pingSent})`;
 		})()
 			.catch(() => {
 				// The database is unavailable: lookups go to it (and answer 503) until a ping is heard.

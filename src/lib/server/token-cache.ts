@@ -7,9 +7,11 @@
  *  - the process that made the change also forgets them itself right after the commit, so its
  *    own next request never depends on the notification's arrival;
  *  - the end date is kept with the entry and checked on every request.
- * Entries are used only while the listener is known to hear: it pings itself every
- * PING_MS and the cache is bypassed (and emptied) when the last ping is older than
- * HEARING_MS, as during an outage; a listener that stopped hearing is replaced. Each
+ * Entries are used only while the listener is known to hear: it pings itself every PING_MS
+ * with the time of sending, and since one connection hears notifications in commit order, a
+ * ping heard means every announcement committed before it was sent has been heard too. The
+ * cache is bypassed (and emptied) when the newest ping heard was sent more than HEARING_MS
+ * ago, as during an outage; a listener that heard nothing for DEAF_MS is replaced. Each
  * (re)connection of the listener empties it too (anything may have been missed), and an
  * entry is re-read after MAX_AGE_MS at the latest, which bounds what an edit made outside
  * the app (SQL by hand) can leave behind.
@@ -24,7 +26,10 @@ import type { Person } from './people';
 export const PEOPLE_CHANNEL = 'junction_people';
 
 const PING_MS = 1000;
+/** Entries are trusted while every announcement committed up to this long ago is known heard. */
 const HEARING_MS = 3000;
+/** A listener that heard none of its pings for this long is replaced. */
+const DEAF_MS = 10_000;
 const MAX_AGE_MS = 60_000;
 
 export type TokenEntry = { person: Person; tokenId: number; expiresAt: number | null; lastUsedAt: number | null };
@@ -43,7 +48,10 @@ class TokenCache {
 	private timer: ReturnType<typeof setInterval> | null = null;
 	private readonly pingPrefix = `ping:${randomBytes(6).toString('hex')}:`;
 	private pingSent = 0;
+	/** When the newest ping heard was sent. */
 	private heardAt = 0;
+	/** When the current listener was opened (it gets DEAF_MS to hear its first ping). */
+	private listenedAt = 0;
 
 	/** The entry for this token digest, when the cache may be trusted and holds one. */
 	get(digest: string): TokenEntry | null {
@@ -101,28 +109,29 @@ class TokenCache {
 			PEOPLE_CHANNEL,
 			(payload) => {
 				if (!payload.startsWith('ping:')) this.forgetPerson(payload);
-				else if (payload.startsWith(this.pingPrefix) && Number(payload.slice(this.pingPrefix.length)) === this.pingSent) this.heardAt = Date.now();
+				else if (payload.startsWith(this.pingPrefix)) this.heardAt = Math.max(this.heardAt, Number(payload.slice(this.pingPrefix.length)) || 0);
 			},
 			() => this.forgetAll()
 		);
 	}
 
-	/** One ping; a listener that missed the last one is replaced first. */
+	/** One ping; a listener that has heard nothing for DEAF_MS is replaced first. */
 	private async tick(): Promise<void> {
 		if (this.starting) return;
 		this.starting = (async () => {
-			if (!this.listener || (this.pingSent > 0 && !this.hearing())) {
+			if (!this.listener || (this.pingSent > 0 && Date.now() - Math.max(this.heardAt, this.listenedAt) > DEAF_MS)) {
 				const old = this.listener;
 				this.listener = null;
 				this.forgetAll();
 				if (old) await old.end({ timeout: 0 }).catch(() => {});
+				this.listenedAt = Date.now();
 				await this.listen();
 			}
 			this.pingSent++;
 			// Sent on the listener's own client, not the app's pool: a busy pool queues it behind
 			// requests, which would make a listener that hears well look deaf.
 			const listener = this.listener;
-			if (listener) await listener`select pg_notify(${PEOPLE_CHANNEL}, ${this.pingPrefix + this.pingSent})`;
+			if (listener) await listener`select pg_notify(${PEOPLE_CHANNEL}, ${this.pingPrefix + Date.now()})`;
 		})()
 			.catch(() => {
 				// The database is unavailable: lookups go to it (and answer 503) until a ping is heard.

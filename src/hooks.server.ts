@@ -15,6 +15,7 @@ import { closeModelCache } from '$lib/server/model-cache';
 import { startPruning, stopPruning } from '$lib/server/prune';
 import * as people from '$lib/server/people';
 import * as tokens from '$lib/server/tokens';
+import { tokenCache } from '$lib/server/token-cache';
 
 /** Stops the process with a message an operator can act on (no stack trace). */
 function refuseToStart(message: string): never {
@@ -44,6 +45,7 @@ export const init: ServerInit = async () => {
 		stopOutboxWorker();
 		stopPruning();
 		await closeModelCache();
+		await tokenCache.close();
 		await client.end({ timeout: 5 });
 	});
 };
@@ -154,7 +156,13 @@ const apiErrors: Handle = async ({ event, resolve }) => {
 	return asJsonApiError(response, event.request.method, event.url.pathname);
 };
 
-export const handle = sequence(securityHeaders, apiErrors, originCheck, authReturnAddress, authHandle, identify, gate);
+/**
+ * Auth.js answers its own addresses (sign-in links, sign-out); the app identifies people
+ * itself (identify, below) and never asks Auth.js for the session, so other requests skip it.
+ */
+const authAddresses: Handle = (input) => (input.event.url.pathname.startsWith('/auth/') ? authHandle(input) : input.resolve(input.event));
+
+export const handle = sequence(securityHeaders, apiErrors, originCheck, authReturnAddress, authAddresses, identify, gate);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (isDatabaseDown(error)) {

@@ -155,45 +155,59 @@ export async function get(id: number, tx: DbOrTx = db): Promise<Part | null> {
 	return p ?? null;
 }
 
+/**
+ * The part page's reads, built and prepared once (the part page is among the most requested
+ * addresses): the part with its model and capacitance in one row, its samples, its runs.
+ */
+const partWithModels = db
+	.select({ part: parts, model: partModels, capacitance: partCapacitance })
+	.from(parts)
+	.leftJoin(partModels, eq(partModels.partId, parts.id))
+	.leftJoin(partCapacitance, eq(partCapacitance.partId, parts.id))
+	.where(eq(parts.id, sql.placeholder('id')))
+	.prepare('catalogue_part_with_models');
+
+const samplesOfPart = db.select().from(samples).where(eq(samples.partId, sql.placeholder('id'))).orderBy(asc(samples.unit)).prepare('catalogue_samples_of_part');
+
+/** A part's runs, each with its current fit (earlier fit versions are on the run's own page). */
+const runsOfPart = db
+	.select({
+		id: runs.id,
+		sampleId: runs.sampleId,
+		measurement: runs.measurement,
+		temperatureC: runs.temperatureC,
+		direction: runs.direction,
+		frequencyHz: runs.frequencyHz,
+		testLevelV: runs.testLevelV,
+		fileName: runs.fileName,
+		sha256: runs.fileSha256,
+		points: runs.points,
+		createdAt: runs.createdAt,
+		state: runs.state,
+		withdrawnAt: runs.withdrawnAt,
+		withdrawnReason: runs.withdrawnReason,
+		fit: {
+			version: fits.version,
+			model: fits.model,
+			interval: fits.interval,
+			quality: fits.quality,
+			range: fits.range,
+			excludedV: fits.excludedV,
+			strayCapacitanceF: fits.strayCapacitanceF
+		}
+	})
+	.from(runs)
+	.leftJoin(fits, and(eq(fits.runId, runs.id), isNull(fits.supersededAt)))
+	.where(eq(runs.partId, sql.placeholder('id')))
+	.orderBy(asc(runs.id))
+	.prepare('catalogue_runs_of_part');
+
 /** Everything the part page and GET /api/v1/junctions/{id} show. */
 export async function detail(id: number) {
-	const part = await get(id);
-	if (!part) return null;
-	const [model] = await db.select().from(partModels).where(eq(partModels.partId, id));
-	const [capacitance] = await db.select().from(partCapacitance).where(eq(partCapacitance.partId, id));
-	const sampleRows = await db.select().from(samples).where(eq(samples.partId, id)).orderBy(asc(samples.unit));
-	const runRows = await db
-		.select({
-			id: runs.id,
-			sampleId: runs.sampleId,
-			measurement: runs.measurement,
-			temperatureC: runs.temperatureC,
-			direction: runs.direction,
-			frequencyHz: runs.frequencyHz,
-			testLevelV: runs.testLevelV,
-			fileName: runs.fileName,
-			sha256: runs.fileSha256,
-			points: runs.points,
-			createdAt: runs.createdAt,
-			state: runs.state,
-			withdrawnAt: runs.withdrawnAt,
-			withdrawnReason: runs.withdrawnReason,
-			fit: {
-				version: fits.version,
-				model: fits.model,
-				interval: fits.interval,
-				quality: fits.quality,
-				range: fits.range,
-				excludedV: fits.excludedV,
-				strayCapacitanceF: fits.strayCapacitanceF
-			}
-		})
-		.from(runs)
-		// The current fit version of each run; earlier ones are on the run's own page.
-		.leftJoin(fits, and(eq(fits.runId, runs.id), isNull(fits.supersededAt)))
-		.where(eq(runs.partId, id))
-		.orderBy(asc(runs.id));
-	return { part, model: model ?? null, capacitance: capacitance ?? null, samples: sampleRows, runs: runRows.map(runFit) };
+	// Independent reads, sent together: one wait on the pool instead of one per read.
+	const [[row], sampleRows, runRows] = await Promise.all([partWithModels.execute({ id }), samplesOfPart.execute({ id }), runsOfPart.execute({ id })]);
+	if (!row) return null;
+	return { part: row.part, model: row.model, capacitance: row.capacitance, samples: sampleRows, runs: runRows.map(runFit) };
 }
 
 type RunRow = { measurement: string; fit: { strayCapacitanceF: number | null } | null };
@@ -260,29 +274,47 @@ export function present(part: Part, model: PartModelRow | null, capacitance: Par
 	};
 }
 
-/** Paged listing for the API: id order, cursor = last id of the previous page. */
-export async function list(opts: { q: string; kind?: JunctionKind; limit: number; cursor?: string }) {
+/** The listing's query for one combination of filters, built and prepared once (values are placeholders). */
+function listingQuery(shape: { cursor: boolean; kind: boolean; q: boolean; qHoldsSeparator: boolean }) {
 	const where: SQL[] = [];
-	if (opts.cursor) where.push(gt(parts.id, Number(opts.cursor)));
-	if (opts.kind) where.push(eq(parts.kind, opts.kind));
-	if (opts.q) {
-		const like = `%${opts.q.replace(/[\\%_]/g, (c) => '\\' + c)}%`;
-		// Tags are matched in one string joined by the unit separator (U+001F): a tenth of the
-		// time of a subquery per row over a large catalogue; the same matches unless the text
-		// itself holds that character, which then goes tag by tag.
-		const inTags = opts.q.includes('\u001f')
+	if (shape.cursor) where.push(gt(parts.id, sql.placeholder('cursor')));
+	if (shape.kind) where.push(eq(parts.kind, sql.placeholder('kind')));
+	if (shape.q) {
+		const like = sql.placeholder('like');
+		// Tags are matched in one string joined by the unit separator (U+001F), the expression
+		// of their trigram index (as part number and maker have theirs): the same matches unless
+		// the text itself holds that character, which then goes tag by tag.
+		const inTags = shape.qHoldsSeparator
 			? sql`exists (select 1 from unnest(${parts.tags}) t where t ilike ${like})`
-			: sql`array_to_string(${parts.tags}, chr(31)) ilike ${like}`;
+			: sql`parts_tags_text(${parts.tags}) ilike ${like}`;
 		where.push(or(ilike(parts.partNumber, like), ilike(parts.maker, like), inTags) as SQL);
 	}
-	const rows = await db
+	const name = `catalogue_list_${Number(shape.cursor)}${Number(shape.kind)}${Number(shape.q)}${Number(shape.qHoldsSeparator)}`;
+	return db
 		.select({ part: parts, model: partModels, capacitance: partCapacitance })
 		.from(parts)
 		.leftJoin(partModels, eq(partModels.partId, parts.id))
 		.leftJoin(partCapacitance, eq(partCapacitance.partId, parts.id))
 		.where(where.length ? and(...where) : undefined)
 		.orderBy(asc(parts.id))
-		.limit(opts.limit + 1);
+		.limit(sql.placeholder('limit'))
+		.prepare(name);
+}
+
+const listingQueries = new Map<string, ReturnType<typeof listingQuery>>();
+
+/** Paged listing for the API: id order, cursor = last id of the previous page. */
+export async function list(opts: { q: string; kind?: JunctionKind; limit: number; cursor?: string }) {
+	const shape = { cursor: !!opts.cursor, kind: !!opts.kind, q: !!opts.q, qHoldsSeparator: opts.q.includes('\u001f') };
+	const key = JSON.stringify(shape);
+	let query = listingQueries.get(key);
+	if (!query) listingQueries.set(key, (query = listingQuery(shape)));
+	const rows = await query.execute({
+		cursor: opts.cursor ? Number(opts.cursor) : undefined,
+		kind: opts.kind,
+		like: `%${opts.q.replace(/[\\%_]/g, (c) => '\\' + c)}%`,
+		limit: opts.limit + 1
+	});
 	const more = rows.length > opts.limit;
 	const page = rows.slice(0, opts.limit);
 	return { items: page.map((r) => present(r.part, r.model, r.capacitance)), nextCursor: more ? String(page[page.length - 1].part.id) : null };

@@ -405,18 +405,24 @@ export class ModelCache {
 }
 
 let shared: ModelCache | null = null;
+/**
+ * Made once, before the first await: requests arriving together at a cold start must share
+ * one cache (each one made its own before: a full load, a listener and a hearing check each).
+ */
+let creating: Promise<ModelCache> | null = null;
 
 /** This process's cache over the app's database pool, ready to use. */
 export async function modelCache(): Promise<ModelCache> {
-	if (!shared) {
-		const { client, listeningClient } = await import('./db');
-		shared = new ModelCache(client, {
-			onSkip: (id, reason) => console.warn(`model cache: part ${id} left out: ${reason}`),
-			listener: listeningClient
-		});
-	}
-	await shared.ready();
-	return shared;
+	creating ??= import('./db').then(
+		({ client, listeningClient }) =>
+			(shared = new ModelCache(client, {
+				onSkip: (id, reason) => console.warn(`model cache: part ${id} left out: ${reason}`),
+				listener: listeningClient
+			}))
+	);
+	const cache = await creating;
+	await cache.ready();
+	return cache;
 }
 
 /** Stops this process's cache listening (server shutdown), so the process can exit. */

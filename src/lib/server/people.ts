@@ -1,5 +1,6 @@
 import { and, asc, eq, gt, inArray, isNotNull, isNull, or, sql } from 'drizzle-orm';
-import { db, type DbOrTx } from './db';
+import { db, type DbOrTx, type Tx } from './db';
+import { announcePersonChanged, tokenCache } from './token-cache';
 import { apiTokens, sessions, userRoles, users } from './db/schema';
 import { recordAudit } from './audit';
 import { DomainError } from './errors';
@@ -66,7 +67,7 @@ export async function findBySessionToken(token: string): Promise<Person | null> 
  * so a request neither rebuilds the query nor has PostgreSQL plan it again.
  */
 const byTokenHash = db
-	.select({ ...personColumns, tokenId: apiTokens.id, tokenHash: apiTokens.tokenHash, lastUsedAt: apiTokens.lastUsedAt })
+	.select({ ...personColumns, tokenId: apiTokens.id, tokenHash: apiTokens.tokenHash, lastUsedAt: apiTokens.lastUsedAt, expiresAt: apiTokens.expiresAt })
 	.from(apiTokens)
 	.innerJoin(users, eq(users.id, apiTokens.userId))
 	.where(
@@ -79,11 +80,28 @@ const byTokenHash = db
 	)
 	.prepare('people_by_token_hash');
 
-/** The active owner of an unrevoked, unexpired API token with this SHA-256, with the token's id and last use. */
+/** The active owner of an unrevoked, unexpired API token with this SHA-256, with the token's id, last use and end date. */
 export async function findByTokenHash(digest: string) {
 	const [row] = await byTokenHash.execute({ digest });
 	if (!row) return null;
-	return { person: toPerson(row, (row.roles ?? []).filter(isRole)), tokenId: row.tokenId, tokenHash: row.tokenHash, lastUsedAt: row.lastUsedAt };
+	return { person: toPerson(row, (row.roles ?? []).filter(isRole)), tokenId: row.tokenId, tokenHash: row.tokenHash, lastUsedAt: row.lastUsedAt, expiresAt: row.expiresAt };
+}
+
+/**
+ * Runs a write that changes a person's access (roles, name, deactivation) in one
+ * transaction that also announces it, then forgets the person's tokens in this process at
+ * once (other processes on hearing the announcement).
+ */
+async function changingAccess<T>(userId: string | ((result: T) => string | null), write: (tx: Tx) => Promise<T>): Promise<T> {
+	const result = await db.transaction(async (tx) => {
+		const r = await write(tx);
+		const id = typeof userId === 'string' ? userId : userId(r);
+		if (id) await announcePersonChanged(tx, id);
+		return r;
+	});
+	const id = typeof userId === 'string' ? userId : userId(result);
+	if (id) tokenCache.forgetPerson(id);
+	return result;
 }
 
 /** Names and addresses of the people with these ids (ids missing or null are skipped). */
@@ -127,7 +145,7 @@ export async function upsert(
 	inviteUrl?: string
 ): Promise<Person> {
 	const email = normaliseEmail(input.email);
-	return db.transaction(async (tx) => {
+	return changingAccess((p: Person) => p.id, async (tx) => {
 		const [u] = await tx
 			.insert(users)
 			.values({ email, name: input.name })
@@ -160,7 +178,7 @@ export async function upsert(
  * a role already held, or removing one not held, changes nothing and records nothing).
  */
 export async function setRole(userId: string, role: Role, granted: boolean, actorId: string): Promise<boolean> {
-	return db.transaction(async (tx) => {
+	return changingAccess(userId, async (tx) => {
 		const rows = granted
 			? await tx.insert(userRoles).values({ userId, role, grantedBy: actorId }).onConflictDoNothing().returning({ role: userRoles.role })
 			: await tx
@@ -186,7 +204,7 @@ export async function setRole(userId: string, role: Role, granted: boolean, acto
  */
 export async function deactivate(userId: string, actorId: string): Promise<Person> {
 	if (userId === actorId) throw new DomainError(400, 'You cannot deactivate yourself; ask another admin.');
-	return db.transaction(async (tx) => {
+	return changingAccess(userId, async (tx) => {
 		const [u] = await tx
 			.update(users)
 			.set({ deactivatedAt: new Date() })
@@ -212,7 +230,7 @@ export async function deactivate(userId: string, actorId: string): Promise<Perso
 
 /** Lets a deactivated person sign in again (revoked tokens stay revoked: they make new ones). */
 export async function reactivate(userId: string, actorId: string): Promise<Person> {
-	return db.transaction(async (tx) => {
+	return changingAccess(userId, async (tx) => {
 		const [u] = await tx
 			.update(users)
 			.set({ deactivatedAt: null })

@@ -4,6 +4,7 @@ import { db } from './db';
 import { apiTokens } from './db/schema';
 import { recordAudit } from './audit';
 import * as people from './people';
+import { announcePersonChanged, tokenCache } from './token-cache';
 import { TOKEN_DEFAULT_DAYS } from '$lib/schemas/people';
 
 const PREFIX = 'jct_';
@@ -52,28 +53,45 @@ export async function listFor(userId: string) {
 }
 
 export async function revoke(userId: string, tokenId: number): Promise<boolean> {
-	return db.transaction(async (tx) => {
+	const revoked = await db.transaction(async (tx) => {
 		const rows = await tx
 			.update(apiTokens)
 			.set({ revokedAt: new Date() })
 			.where(and(eq(apiTokens.id, tokenId), eq(apiTokens.userId, userId), isNull(apiTokens.revokedAt)))
 			.returning({ id: apiTokens.id });
-		if (rows.length) await recordAudit(tx, { actorId: userId, action: 'token.revoked', entity: 'api-token', entityId: tokenId });
+		if (rows.length) {
+			await recordAudit(tx, { actorId: userId, action: 'token.revoked', entity: 'api-token', entityId: tokenId });
+			await announcePersonChanged(tx, userId);
+		}
 		return rows.length > 0;
 	});
+	if (revoked) tokenCache.forgetPerson(userId);
+	return revoked;
 }
 
-/** The person a bearer token belongs to, or null for an unknown, forged, revoked or expired token, or a deactivated person. */
+/**
+ * The person a bearer token belongs to, or null for an unknown, forged, revoked or expired
+ * token, or a deactivated person. Known tokens are answered from memory (token-cache.ts:
+ * emptied of a person the moment their access changes); the end date is checked every time.
+ */
 export async function resolve(token: string): Promise<people.Person | null> {
 	if (!token.startsWith(PREFIX) || token.length > 200) return null;
 	const digest = hash(token);
-	const found = await people.findByTokenHash(digest);
-	// The lookup is by hash, so timing reveals nothing of the secret; compare anyway.
-	if (!found || !timingSafeEqual(Buffer.from(found.tokenHash), Buffer.from(digest))) return null;
-	// Last use is recorded at most once a minute, so reads stay reads.
-	const now = Date.now();
-	if (!found.lastUsedAt || now - found.lastUsedAt.getTime() > 60_000) {
-		await db.update(apiTokens).set({ lastUsedAt: new Date(now) }).where(eq(apiTokens.id, found.tokenId));
+	let entry = tokenCache.get(digest);
+	if (!entry) {
+		const readAt = tokenCache.current;
+		const found = await people.findByTokenHash(digest);
+		// The lookup is by hash, so timing reveals nothing of the secret; compare anyway.
+		if (!found || !timingSafeEqual(Buffer.from(found.tokenHash), Buffer.from(digest))) return null;
+		entry = { person: found.person, tokenId: found.tokenId, expiresAt: found.expiresAt?.getTime() ?? null, lastUsedAt: found.lastUsedAt?.getTime() ?? null };
+		tokenCache.set(digest, entry, readAt);
 	}
-	return found.person;
+	const now = Date.now();
+	if (entry.expiresAt !== null && entry.expiresAt <= now) return null;
+	// Last use is recorded at most once a minute, so reads stay reads.
+	if (entry.lastUsedAt === null || now - entry.lastUsedAt > 60_000) {
+		entry.lastUsedAt = now;
+		await db.update(apiTokens).set({ lastUsedAt: new Date(now) }).where(eq(apiTokens.id, entry.tokenId));
+	}
+	return entry.person;
 }

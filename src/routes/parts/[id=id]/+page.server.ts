@@ -38,15 +38,15 @@ const REFERENCE_HOT_C = 85;
 export const load: PageServerLoad = async (event) => {
 	const user = requirePermission(event, 'catalogue:read');
 	const id = Number(event.params.id);
-	const d = await catalogue.detailOr404(id).catch(pageError);
+	const { client } = await import('$lib/server/db');
+	// The models exactly as the ranking predicts with them, read beside the detail (null without a usable model).
+	const [d, usable] = await Promise.all([catalogue.detailOr404(id).catch(pageError), loadPart(client, id).catch(() => null)]);
 	const { part, model } = d;
 	const unitOf = new Map(d.samples.map((s) => [s.id, s.unit]));
 	// Withdrawn runs are listed apart: they no longer shape the model or its curves.
 	const active = d.runs.filter((r) => r.state === 'active' && r.measurement === 'iv');
 	const activeCv = d.runs.filter((r) => r.state === 'active' && r.measurement === 'cv');
-	// The models exactly as the ranking predicts with them (null without a usable model).
-	const { client } = await import('$lib/server/db');
-	const cached = model ? await loadPart(client, id).catch(() => null) : null;
+	const cached = model ? usable : null;
 	const sp = cached ? spicePartOf(cached) : null;
 	// Two reverse biases worth comparing: a small one (as across a guarded input) and half the rating.
 	const vr = part.ratedReverseV ?? 5;

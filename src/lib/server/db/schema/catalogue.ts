@@ -58,7 +58,11 @@ export const parts = pgTable(
 	},
 	(t) => [
 		uniqueIndex('parts_maker_number_idx').on(t.maker, t.partNumber),
-		index('parts_kind_idx').on(t.kind)
+		index('parts_kind_idx').on(t.kind),
+		// Catalogue search (ILIKE '%…%' on each); parts_tags_text joins the tags by U+001F.
+		index('parts_part_number_trgm_idx').using('gin', t.partNumber.op('gin_trgm_ops')),
+		index('parts_maker_trgm_idx').using('gin', t.maker.op('gin_trgm_ops')),
+		index('parts_tags_trgm_idx').using('gin', sql`parts_tags_text(${t.tags}) gin_trgm_ops`)
 	]
 );
 

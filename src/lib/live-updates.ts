@@ -74,24 +74,44 @@ export function onLiveEvent<K extends LiveKind>(kind: K, handler: (data: LiveEve
 
 /**
  * Calls `refresh` (at most once per burst) when project `projectId` changes or the model of
- * one of `partIds` does — what a project screen shows. Returns the function that stops it.
+ * one of the parts `partIds()` names does — what a project screen shows; `partIds` is read
+ * when an event comes, so the subscription outlives the screen's data. A change heard while
+ * a refresh is still loading gets a refresh of its own after it. Returns the function that stops it.
  */
-export function followProject(projectId: number, partIds: number[], refresh: () => void): () => void {
-	const parts = new Set(partIds);
+export function followProject(projectId: number, partIds: () => Iterable<number>, refresh: () => unknown): () => void {
 	let timer: ReturnType<typeof setTimeout> | null = null;
+	let loading = false;
+	let again = false;
+	let stopped = false;
+	const run = async () => {
+		timer = null;
+		if (loading) {
+			again = true;
+			return;
+		}
+		loading = true;
+		try {
+			await refresh();
+		} finally {
+			loading = false;
+			if (again && !stopped) {
+				again = false;
+				soon();
+			}
+		}
+	};
 	const soon = () => {
-		timer ??= setTimeout(() => {
-			timer = null;
-			refresh();
-		}, 50);
+		timer ??= setTimeout(run, 50);
 	};
 	const offProject = onLiveEvent('project', ({ projectId: id }) => {
 		if (id === null || id === projectId) soon();
 	});
 	const offModels = onLiveEvent('models', ({ partIds: ids }) => {
+		const parts = new Set(partIds());
 		if (ids === null ? parts.size > 0 : ids.some((id) => parts.has(id))) soon();
 	});
 	return () => {
+		stopped = true;
 		if (timer) clearTimeout(timer);
 		offProject();
 		offModels();

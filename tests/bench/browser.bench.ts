@@ -140,6 +140,9 @@ export async function runBrowserBenchmarks(): Promise<void> {
 		// tsx names the functions it compiles with a helper (__name) that the page does not have.
 		await context.addInitScript('globalThis.__name = (f) => f;');
 		const page = await context.newPage();
+		// A renderer that crashes would leave the in-page loop waiting for ever: say so at once.
+		const crashed = new Promise<never>((_, reject) => page.on('crash', () => reject(new Error('the page crashed in chromium'))));
+		crashed.catch(() => {});
 		await page.goto(`${appUrl}/rank?v=-5&tlo=0&thi=85`);
 		await page.locator('[data-ranks-in="browser"]').waitFor({ state: 'attached', timeout: 60_000 });
 		// The charts say which ranking they show once they have drawn one.
@@ -150,8 +153,8 @@ export async function runBrowserBenchmarks(): Promise<void> {
 
 		// Bias from −1 V to −20 V and back (slider positions of the logarithmic scale); hot end 25…125 °C.
 		const loadBefore = loadavg()[0];
-		const bias = await slide(page, 'op-bias-slider', -0.566, -0.811, 0.004);
-		const hot = await slide(page, 'op-thi-slider', 25, 125, 1);
+		const bias = await Promise.race([slide(page, 'op-bias-slider', -0.566, -0.811, 0.004), crashed]);
+		const hot = await Promise.race([slide(page, 'op-thi-slider', 25, 125, 1), crashed]);
 		const rate = (r: Run) => r.drawn / r.seconds;
 		const worse = Math.min(rate(bias), rate(hot));
 		const words = (r: Run) => `${r.drawn} in ${r.seconds.toFixed(1)} s (${r.frames} frames, median ${r.medianFrameMs.toFixed(1)} ms, worst ${r.worstFrameMs.toFixed(0)} ms)`;

@@ -40,6 +40,11 @@ export class RankState {
 	/** Completed re-rankings since the page opened (read by the browser benchmark). */
 	updates = $state(0);
 	readonly parsed: { op: RankOperatingPoint | null; errors: FieldErrors } = $derived(parseFields(this.fields));
+	/** The query string for the current fields (canonical when they parse); made once per change, read by several links. */
+	readonly query: string = $derived.by(() => {
+		const op = this.parsed.op;
+		return (op ? queryFromOperatingPoint(op) : queryFromFields(this.fields)).toString();
+	});
 	private timer: ReturnType<typeof setTimeout> | null = null;
 	private controller: AbortController | null = null;
 	private urlTimer: ReturnType<typeof setTimeout> | null = null;
@@ -64,11 +69,6 @@ export class RankState {
 		this.rankedOp = result ? this.parsed.op : null;
 	}
 
-	/** The query string for the current fields (canonical when they parse). */
-	get query(): string {
-		const op = this.parsed.op;
-		return (op ? queryFromOperatingPoint(op) : queryFromFields(this.fields)).toString();
-	}
 
 	/** Rank in the browser from now on (the worker holds the snapshot), or on the server again (null). */
 	rankInBrowser(ranker: BrowserRanker | null): void {

@@ -24,8 +24,8 @@ import type { RankOperatingPoint, RankResponse } from '$lib/schemas/rank';
 import type { BrowserRanker } from '$lib/rank/browser-ranker';
 
 export const DEBOUNCE_MS = 150;
-/** The address bar is written at most this often while the fields keep changing (last write always lands). */
-export const URL_WRITE_MS = 250;
+/** The address bar is written once the fields have kept still this long. */
+export const URL_SETTLE_MS = 250;
 /** A ranking in the browser that takes longer than this shows "Updating…" (a quicker one would only flicker it). */
 const SLOW_RANK_MS = 120;
 
@@ -48,7 +48,6 @@ export class RankState {
 	private timer: ReturnType<typeof setTimeout> | null = null;
 	private controller: AbortController | null = null;
 	private urlTimer: ReturnType<typeof setTimeout> | null = null;
-	private urlWritten = 0;
 	/** Ranks in the browser once set (its snapshot loaded). */
 	private ranker: BrowserRanker | null = $state.raw(null);
 	private ranking = false;
@@ -105,24 +104,23 @@ export class RankState {
 	}
 
 	/**
-	 * Mirrors the fields into the URL: at once after a quiet spell, otherwise at most every
-	 * URL_WRITE_MS with the latest fields (each history write costs the browser several ms,
-	 * and Chromium refuses bursts of them).
+	 * Mirrors the fields into the URL once they keep still for URL_SETTLE_MS: a history write
+	 * costs the browser several ms (and the page's reactions to it more), which dropped a
+	 * frame at every write while a slider moved; Chromium also refuses bursts of them.
 	 */
 	private writeUrl(): void {
-		if (this.urlTimer) return; // a write is due and will take the latest fields
-		const write = () => {
+		if (this.urlTimer) clearTimeout(this.urlTimer);
+		const path = location.pathname;
+		this.urlTimer = setTimeout(() => {
 			this.urlTimer = null;
-			this.urlWritten = performance.now();
+			// Gone to another page meanwhile: its address is not ours to write.
+			if (location.pathname !== path) return;
 			try {
 				replaceState(`?${this.query}`, {});
 			} catch {
 				/* before the router is ready (first tick): the next change writes it */
 			}
-		};
-		const wait = this.urlWritten + URL_WRITE_MS - performance.now();
-		if (wait <= 0) write();
-		else this.urlTimer = setTimeout(write, wait);
+		}, URL_SETTLE_MS);
 	}
 
 	/** Ranks the current fields in the worker; changes meanwhile are ranked next, the latest only. */

@@ -1,6 +1,6 @@
 /**
  * Ranking benchmarks (ratios, never timed assertions):
- *  - sql-vs-rank-core: the rank core over 100k models (every part evaluated and flagged, the
+ *  - sql-vs-rank-core: the rank core over 100k models (every part evaluated, the
  *    best 100 selected and listed, as the API does with limit=100) against the same leakage
  *    computation and top-100 ordering done as one SQL query in PostgreSQL (ratio = core / SQL;
  *    target ≤ 1/20). The detail also gives the core's time for ordering every part;
@@ -99,7 +99,7 @@ async function sqlVsRankCore(sql: postgres.Sql) {
 		'sql-vs-rank-core',
 		ratio,
 		1 / 20,
-		`rank core, top 100, ${median(coreMs).toFixed(2)} ms (median of 15) vs one SQL query ${median(sqlMs).toFixed(1)} ms (median of 7) over ${N_CORE} models ( core ${(1 / ratio).toFixed(1)}× faster; its evaluation alone ${median(evalMs).toFixed(2)} ms, the rest is selecting the best 100 in one pass and their statistics and flags; ordering every part instead takes ${median(fullMs).toFixed(1)} ms)`
+		`rank core, top 100, ${median(coreMs).toFixed(2)} ms (median of 15) vs one SQL query ${median(sqlMs).toFixed(1)} ms (median of 7) over ${N_CORE} models (core ${(1 / ratio).toFixed(1)}× faster; its evaluation alone ${median(evalMs).toFixed(2)} ms, the rest is selecting the best 100 in one pass and their statistics and flags; ordering every part instead takes ${median(fullMs).toFixed(1)} ms)`
 	);
 }
 

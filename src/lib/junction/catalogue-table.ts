@@ -61,6 +61,7 @@ export class CatalogueTable {
 	private shortList = new ShortList();
 	private scratchExcluded = new Int32Array(0);
 	private scratchBucket = new Uint8Array(0);
+	private scratchCounts = new Int32Array(GROUPS + 1);
 	private caches!: CatalogueCaches;
 	private noise!: CatalogueNoise;
 	private factorCache = new Map<string, Float64Array>();
@@ -297,7 +298,7 @@ export class CatalogueTable {
 		const columns = { start: this.start, count: this.count, given: this.given, ratedReverse: this.ratedReverse, ratedForward: this.ratedForward };
 		const picked = this.shortList.select(inputs, this.layout, columns, b, hotI, factors, out, limit, this.scratchExcluded);
 		// The parts are counted already: the flag pass counts into scratch.
-		flagPass(inputs, this.layout, this.start, this.count, this.given, this.staticFlags, this.ratedReverse, this.ratedForward, b.least, b.pending, hotI, out, this.scratchBucket, new Int32Array(GROUPS + 1), EXCLUDED, picked.order);
+		flagPass(inputs, this.layout, this.start, this.count, this.given, this.staticFlags, this.ratedReverse, this.ratedForward, b.least, b.pending, hotI, out, this.scratchBucket, this.scratchCounts, EXCLUDED, picked.order);
 		const { order, ranked, failing } = picked;
 		// Listed parts show their bound whatever the basis.
 		b.settleAll(order, hotI, factors, out.boundA);

@@ -38,7 +38,6 @@ const LATER_BATCH = 16;
 /** Group above every listed one: the threshold while the list is not full. */
 const ANY_GROUP = 255;
 
-
 /** The heap and the work arrays of the pass, kept by the catalogue table between rankings. */
 export class ShortList {
 	private part = new Int32Array(0);
@@ -52,7 +51,6 @@ export class ShortList {
 	private listed = new Uint8Array(0);
 	private state = new Uint8Array(0);
 	private readonly tally = new Int32Array(3);
-	private lastStates: Uint8Array = new Uint8Array(0);
 
 	/**
 	 * Ranks the listed parts (not filtered out, not excluded over their reverse rating) and
@@ -74,7 +72,6 @@ export class ShortList {
 		const { count, given } = columns;
 		const n = count.length;
 		const state = this.states(x, layout, columns.ratedReverse, columns.ratedForward, out, n, excluded);
-		this.lastStates = state;
 		this.reset(take);
 		const c = this.candidates;
 		// The parts with one sample, then those with several: each list in batches.
@@ -90,7 +87,7 @@ export class ShortList {
 				const m = single
 					? gatherSingles(x.basis, x.maxLeak, state, list, layout.singleSample, given, hotI, from, topGroup, topKey, c, cap, this.tally)
 					: gather(x.basis, x.maxLeak, state, list, given, layout.boundable, bounds.pending, bounds.least, out, from, topGroup, topKey, c, cap, this.tally);
-				for (let i = 0; i < m; i++) this.offer(list[c[i]], x, columns, layout, bounds, hotI, factors, out, take);
+				for (let i = 0; i < m; i++) this.offer(list[c[i]], state[list[c[i]]], x, columns, layout, bounds, hotI, factors, out, take);
 				// A full batch stopped just after its last entry; else the pass reached the list's end.
 				from = m === cap ? c[m - 1] + 1 : list.length;
 			}
@@ -126,12 +123,13 @@ export class ShortList {
 	}
 
 	/**
-	 * Puts a gathered part on the list if it belongs among the best `take`: its group and
-	 * key as `gather` found them (the arrays the pass keeps live are few: it stores only the
-	 * part), a pending bound computed now.
+	 * Puts a gathered part (in state `st`) on the list if it belongs among the best `take`:
+	 * its group and key found again as `gather` found them (the pass stores only the part,
+	 * so it keeps few arrays live), a pending bound computed now.
 	 */
 	private offer(
 		p: number,
+		st: number,
 		x: FlagInputs,
 		columns: { start: Int32Array; count: Int32Array; given: Uint8Array },
 		layout: PartLayout,
@@ -148,7 +146,6 @@ export class ShortList {
 		const hasValue = basis === 0 ? layout.boundable[p] === 1 : basis === 1 ? raw === raw : typical === typical;
 		const isPending = basis === 0 && hasValue && bounds.pending[p] === 1;
 		const value = basis === 0 ? (hasValue ? (isPending ? bounds.least[p] : out.boundA[p]) : NaN) : basis === 1 ? raw : typical;
-		const st = this.lastStates[p];
 		const fails = st === FAILS_OTHER || (hasValue ? value : raw) > x.maxLeak;
 		const g = (fails ? FAILS : 0) | (columns.given[p] === 1 ? GIVEN : 0) | (hasValue ? 0 : NO_VALUE);
 		const key = isPending ? bounds.settle(p, hotI, factors, out.boundA) : hasValue ? value : typical;

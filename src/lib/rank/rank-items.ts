@@ -11,19 +11,11 @@ import type { OperatingPoint } from '$lib/junction/operating-point';
 import type { RankResult, RankedPart } from '$lib/junction/rank-types';
 import { leakageBudget } from '$lib/projects/leakage-budget';
 import { listedPart } from '$lib/catalogue/part-names';
-import type { RankFlag, RankItem, RankKind, RankLifecycle, RankOperatingPoint, RankResponse, SpiceModel } from '$lib/schemas/rank';
+import type { RankFlag, RankItem, RankOperatingPoint, RankResponse, SpiceModel } from '$lib/schemas/rank';
 
 /** What the ranked list needs to know about a part besides its models (the server's cache holds more). */
-export type ListedPart = {
-	id: number;
-	partNumber: string;
-	maker: string;
-	kind: RankKind;
-	package: string;
-	lifecycle: RankLifecycle;
+export type ListedPart = Pick<RankItem, 'id' | 'partNumber' | 'maker' | 'kind' | 'package' | 'lifecycle' | 'ratedReverseV' | 'ratedForwardA'> & {
 	material: string;
-	ratedReverseV: number | null;
-	ratedForwardA: number | null;
 	/** Each sample's unit label, in the order of the record's samples (empty for a given model). */
 	sampleUnits: string[];
 	/** Lower-cased part number, maker and tags, for the text filter. */

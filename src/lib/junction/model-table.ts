@@ -16,8 +16,9 @@
  * shunt correction (`shuntedJunctionVoltage`) for every model without ISR. Only models
  * with a recombination term, or biased into breakdown, fall back to the scalar solver.
  *
- * Temperature-scaled parameters (IS(T), 1/RSH(T), and the full scaled model where the
- * solver or the capacitance needs it) are kept per temperature for the last
+ * Temperature-scaled parameters (IS(T), 1/RSH(T), the deep-reverse current's slope and
+ * offset and the bias below which they hold, each model's breakdown knee, and the full
+ * scaled model where the solver or the capacitance needs it) are kept per temperature for the last
  * SCALED_TEMPERATURES temperatures asked for, so repeated evaluations at the same
  * temperatures skip the scaling. The table is immutable, so these never go stale; a
  * catalogue refresh builds a new table and with it an empty cache.
@@ -44,6 +45,20 @@ interface ScaledColumns {
 	LNIS: Float64Array;
 	/** 1/RSH(T) [S], 0 = no shunt. */
 	GSH: Float64Array;
+	/**
+	 * Deep in reverse (file header) the current is V·SLOPE − OFFSET with SLOPE = G/d and
+	 * OFFSET = IS(T)/d, d = 1 + RS·G, for a bias below DEEP_BELOW = d·(−40·N·Vt − RS·OFFSET)
+	 * [V] (the junction voltage then lies below −40·N·Vt); −Infinity for a model with ISR or BV.
+	 * Without a source resistance; kept per temperature so the loop at a bias divides nothing.
+	 */
+	DEEP_BELOW: Float64Array;
+	SLOPE: Float64Array;
+	OFFSET: Float64Array;
+	/**
+	 * The bias [V] below which model j needs the scalar solver: +Infinity with ISR, −BV(T)
+	 * with breakdown (above its knee the junction never enters breakdown), −Infinity else.
+	 */
+	KNEE: Float64Array;
 	/** Full scaled models, built on first use (solver and capacitance only). */
 	full: (ScaledJunction | undefined)[];
 }
@@ -72,6 +87,8 @@ export class ModelTable {
 	/** The original models, for the general solver and for reports. */
 	readonly models: readonly JunctionModel[];
 	private scaledCache = new Map<number, ScaledColumns>();
+	/** Models `currents` leaves to the solver, one call's worth. */
+	private restScratch: Int32Array | undefined;
 
 	constructor(models: readonly JunctionModel[]) {
 		const n = models.length;
@@ -136,7 +153,22 @@ export class ModelTable {
 			LNIS[j] = Math.log(this.IS[j]) + lnFactor;
 			G[j] = this.GSH[j] === 0 ? 0 : this.GSH[j] * Math.exp(this.LNSF10[j] * (T - this.TNOMK[j]));
 		}
-		const cols: ScaledColumns = { temperatureC, constants, vt, IS, LNIS, GSH: G, full: new Array(n) };
+		const DEEP_BELOW = new Float64Array(n);
+		const SLOPE = new Float64Array(n);
+		const OFFSET = new Float64Array(n);
+		for (let j = 0; j < n; j++) {
+			const rs = this.RS[j];
+			const d = 1 + rs * G[j];
+			SLOPE[j] = G[j] / d;
+			OFFSET[j] = IS[j] / d;
+			DEEP_BELOW[j] = this.complex[j] === 1 ? -Infinity : d * (-40 * this.N[j] * vt - rs * OFFSET[j]);
+		}
+		const cols: ScaledColumns = { temperatureC, constants, vt, IS, LNIS, GSH: G, DEEP_BELOW, SLOPE, OFFSET, KNEE: new Float64Array(n).fill(-Infinity), full: new Array(n) };
+		for (let j = 0; j < n; j++) {
+			if (this.complex[j] === 0) continue;
+			const s = this.full(cols, j);
+			cols.KNEE[j] = s.ISR !== 0 ? Infinity : -s.BVeff;
+		}
 		cache.delete(temperatureC);
 		cache.set(temperatureC, cols);
 		if (cache.size > SCALED_TEMPERATURES) cache.delete(cache.keys().next().value as number);
@@ -166,47 +198,33 @@ export class ModelTable {
 		if (out.length < this.length) throw new RangeError('output array is shorter than the table');
 		if (!(extraSeriesOhm >= 0)) throw new RangeError('series resistance must be ≥ 0');
 		const cols = this.scaled(temperatureC, constants);
-		const vt = cols.vt;
-		const { N, RS, complex } = this;
-		const IS = cols.IS;
-		const GSH = cols.GSH;
-		const V = biasV;
-		for (let j = 0; j < this.length; j++) {
-			if (complex[j] === 1) {
-				const s = this.full(cols, j);
-				// Above the knee the junction voltage (between V and 0) never enters breakdown.
-				if (s.ISR !== 0 || V < -s.BVeff) {
-					out[j] = general(s, V, extraSeriesOhm);
-					continue;
-				}
-			}
-			const is = IS[j];
-			const nvt = N[j] * vt;
-			const g = GSH[j];
-			const rs = RS[j] + extraSeriesOhm;
-			let i: number;
-			const d = 1 + rs * g;
-			const B = (V * g - is) / d;
-			if (V < 0 && V - B * rs < -40 * nvt) {
-				// Deep reverse (file header): exp(Vd/(N·Vt)) < 4.3e-18.
-				i = B;
-			} else if (rs === 0) {
-				i = is * Math.expm1(V / nvt) + V * g;
-			} else if (V < 0 && rs * (is / nvt + g) < 1e-9) {
-				// Linearised RS step (file header): relative error < 3e-18.
-				const em1 = Math.expm1(V / nvt);
-				i = (is * em1 + V * g) * (1 - rs * ((is * (em1 + 1)) / nvt + g));
-			} else {
-				const w = lambertW0Exp(Math.log((is * rs) / (d * nvt)) + (V - B * rs) / nvt);
-				if (w > 1) i = B + (nvt * w) / rs;
-				else {
-					const vd = V - B * rs - nvt * w;
-					i = is * Math.expm1(vd / nvt) + vd * g;
-				}
-			}
-			out[j] = i > Number.MAX_VALUE ? Number.MAX_VALUE : i;
-		}
+		const rest = (this.restScratch ??= new Int32Array(this.length));
+		// Each in a loop without calls (V8 then keeps its columns in registers): the models deep
+		// in reverse from the temperature's columns, then the other plain ones, then those
+		// needing the solver or Lambert W.
+		const deep = extraSeriesOhm === 0 ? deepCurrents(biasV, cols.DEEP_BELOW, cols.SLOPE, cols.OFFSET, out, rest) : allIndices(rest);
+		const m = plainCurrents(biasV, cols.vt, this.N, this.RS, cols.IS, cols.GSH, cols.KNEE, extraSeriesOhm, out, rest, deep);
+		for (let k = 0; k < m; k++) out[rest[k]] = this.solvedCurrent(cols, rest[k], biasV, extraSeriesOhm);
 		return out;
+	}
+
+	/** Model j's current where `plainCurrents` left it: the solver, or Lambert W with RS. */
+	private solvedCurrent(cols: ScaledColumns, j: number, V: number, extraSeriesOhm: number): number {
+		if (V < cols.KNEE[j]) return general(this.full(cols, j), V, extraSeriesOhm);
+		const is = cols.IS[j];
+		const nvt = this.N[j] * cols.vt;
+		const g = cols.GSH[j];
+		const rs = this.RS[j] + extraSeriesOhm;
+		const d = 1 + rs * g;
+		const B = (V * g - is) / d;
+		let i: number;
+		const w = lambertW0Exp(Math.log((is * rs) / (d * nvt)) + (V - B * rs) / nvt);
+		if (w > 1) i = B + (nvt * w) / rs;
+		else {
+			const vd = V - B * rs - nvt * w;
+			i = is * Math.expm1(vd / nvt) + vd * g;
+		}
+		return i > Number.MAX_VALUE ? Number.MAX_VALUE : i;
 	}
 
 	/**
@@ -289,4 +307,70 @@ export class ModelTable {
 function general(s: ScaledJunction, V: number, extraRs: number): number {
 	const i = solveBias(extraRs > 0 ? { ...s, RS: s.RS + extraRs } : s, V).i;
 	return Number.isFinite(i) ? i : i > 0 ? Number.MAX_VALUE : -Number.MAX_VALUE;
+}
+
+/**
+ * The currents of the models deep in reverse at bias V into `out` (`ScaledColumns.DEEP_BELOW`);
+ * the others' indices into `rest`, whose count is returned.
+ */
+function deepCurrents(V: number, deepBelow: Float64Array, slope: Float64Array, offset: Float64Array, out: Float64Array, rest: Int32Array): number {
+	let m = 0;
+	// The bound in a local: read from the array, V8 reloads it every step (the loop stores).
+	const n = deepBelow.length;
+	for (let j = 0; j < n; j++) {
+		if (V < deepBelow[j]) out[j] = V * slope[j] - offset[j];
+		else rest[m++] = j;
+	}
+	return m;
+}
+
+/** Every model's index into `rest`; returns the count. */
+function allIndices(rest: Int32Array): number {
+	for (let j = 0; j < rest.length; j++) rest[j] = j;
+	return rest.length;
+}
+
+/**
+ * The currents of the first `count` models listed in `rest` into `out` where no solver and
+ * no Lambert W is needed: deep in reverse, without RS, or with the linearised RS step (file
+ * header). Those it cannot do stay in `rest`, in order, and their count is returned.
+ */
+function plainCurrents(
+	V: number,
+	vt: number,
+	N: Float64Array,
+	RS: Float64Array,
+	IS: Float64Array,
+	GSH: Float64Array,
+	knee: Float64Array,
+	extraSeriesOhm: number,
+	out: Float64Array,
+	rest: Int32Array,
+	count: number
+): number {
+	let m = 0;
+	const reverse = V < 0;
+	for (let r = 0; r < count; r++) {
+		const j = rest[r];
+		if (V < knee[j]) {
+			rest[m++] = j;
+			continue;
+		}
+		const is = IS[j];
+		const nvt = N[j] * vt;
+		const g = GSH[j];
+		const rs = RS[j] + extraSeriesOhm;
+		// Without a shunt the quotient is −IS exactly.
+		const B = g === 0 ? -is : (V * g - is) / (1 + rs * g);
+		// Reverse currents are negative and finite: only a forward one can need the clamp.
+		if (reverse && V - B * rs < -40 * nvt) out[j] = B;
+		else if (rs === 0) {
+			const i = is * Math.expm1(V / nvt) + V * g;
+			out[j] = i > Number.MAX_VALUE ? Number.MAX_VALUE : i;
+		} else if (reverse && rs * (is / nvt + g) < 1e-9) {
+			const em1 = Math.expm1(V / nvt);
+			out[j] = (is * em1 + V * g) * (1 - rs * ((is * (em1 + 1)) / nvt + g));
+		} else rest[m++] = j;
+	}
+	return m;
 }

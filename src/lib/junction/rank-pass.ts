@@ -107,7 +107,8 @@ export function multiSampleStatistics(
 	const due = bounds.due;
 	const dueCount = bounds.dueCount;
 	dueCount[0] = 0;
-	for (let i = 0; i < multiples.length; i++) {
+	const n = multiples.length;
+	for (let i = 0; i < n; i++) {
 		const p = multiples[i];
 		const s0 = start[p];
 		const c = count[p];

@@ -8,8 +8,11 @@
  *
  * The pass runs in batches: a loop without calls gathers parts that could beat the list's
  * last entry as it stood at the batch's start, up to a batch full, then the heap takes
- * them in and the loop goes on from there with the new last entry. V8 keeps a call-free loop's arrays in registers; a call anywhere in the loop,
- * however rarely taken, made it reload them on every part (twice the time, measured).
+ * them in and the loop goes on from there with the new last entry. V8 keeps a call-free
+ * loop's arrays in registers; a call anywhere in the loop, however rarely taken, made it
+ * reload them on every part (twice the time, measured). When every part is listed (no
+ * filter, no limit but the leakage budget), the parts with one sample — most of a large
+ * catalogue — go through a loop that reads their leakage alone (`gatherBelow`).
  *
  * Meant for a list of at most a sixteenth of the catalogue: a longer one is ordered
  * whole (rank-order.ts), as the heap would take most parts in.

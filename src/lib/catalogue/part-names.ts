@@ -17,5 +17,15 @@ export function listedPart<K extends string, L extends string>(p: {
 	ratedReverseV: number | null;
 	ratedForwardA: number | null;
 }) {
-	return { ...partNames(p), lifecycle: p.lifecycle, ratedReverseV: p.ratedReverseV, ratedForwardA: p.ratedForwardA };
+	// Written out rather than spread from partNames: one object of one shape, made per listed part of every ranking.
+	return {
+		id: p.id,
+		partNumber: p.partNumber,
+		maker: p.maker,
+		kind: p.kind,
+		package: p.package,
+		lifecycle: p.lifecycle,
+		ratedReverseV: p.ratedReverseV,
+		ratedForwardA: p.ratedForwardA
+	};
 }

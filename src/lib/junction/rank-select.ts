@@ -81,7 +81,7 @@ export class ShortList {
 		for (const list of [layout.singles, layout.multiples]) {
 			const single = list === layout.singles;
 			if (single && state === this.listed) {
-				this.listSingles(list, layout.singleSample, hotI, given, x.maxLeak, x.basis, take);
+				this.listSingles(x, columns, layout, bounds, hotI, factors, out, take);
 				continue;
 			}
 			for (let from = 0; from < list.length; ) {
@@ -125,25 +125,27 @@ export class ShortList {
 	 * state to read, and only the leakage budget fails a part. A part's group is then at
 	 * least `least` (on the bound basis a part with one sample has no value), so once the
 	 * list's last entry is in that group a part with a larger key cannot be listed, and
-	 * `gatherBelow` turns it away on its key alone. Group and key as `gatherSingles`.
+	 * `gatherBelow` turns it away on its key alone; `offer` finds the group of those it takes.
 	 */
-	private listSingles(list: Int32Array, sample: Int32Array, hotI: Float64Array, given: Uint8Array, maxLeak: number, basis: number, take: number): void {
+	private listSingles(
+		x: FlagInputs,
+		columns: { start: Int32Array; count: Int32Array; given: Uint8Array },
+		layout: PartLayout,
+		bounds: BoundsOnDemand,
+		hotI: Float64Array,
+		factors: Float64Array,
+		out: PartColumns,
+		take: number
+	): void {
 		const c = this.candidates;
-		const onWorst = basis === 1;
-		const least = basis === 0 ? NO_VALUE : 0;
+		const list = layout.singles;
+		const least = x.basis === 0 ? NO_VALUE : 0;
 		for (let from = 0; from < list.length; ) {
 			const top = this.size === take ? (take === 0 ? -1 : this.group[0]) : ANY_GROUP;
 			const quickKey = top > least ? Infinity : top < least ? -Infinity : this.key[0];
 			const cap = this.batchCap(take);
-			const m = gatherBelow(list, sample, hotI, maxLeak, from, quickKey, c, cap, this.tally);
-			for (let i = 0; i < m; i++) {
-				const typical = Math.abs(hotI[sample[c[i]]]);
-				const worst = typical > 0 ? typical : 0;
-				const hasValue = basis !== 0 && (onWorst || typical === typical);
-				const key = onWorst ? worst : typical;
-				const g = ((hasValue ? key : worst) > maxLeak ? FAILS : 0) | (given[list[c[i]]] === 1 ? GIVEN : 0) | (hasValue ? 0 : NO_VALUE);
-				this.place(list[c[i]], g, key, typical, take);
-			}
+			const m = gatherBelow(list, layout.singleSample, hotI, x.maxLeak, from, quickKey, c, cap, this.tally);
+			for (let i = 0; i < m; i++) this.offer(list[c[i]], LISTED, x, columns, layout, bounds, hotI, factors, out, take);
 			from = m === cap ? c[m - 1] + 1 : list.length;
 		}
 	}
@@ -191,17 +193,13 @@ export class ShortList {
 		const fails = st === FAILS_OTHER || (hasValue ? value : raw) > x.maxLeak;
 		const g = (fails ? FAILS : 0) | (columns.given[p] === 1 ? GIVEN : 0) | (hasValue ? 0 : NO_VALUE);
 		const key = isPending ? bounds.settle(p, hotI, factors, out.boundA) : hasValue ? value : typical;
-		this.place(p, g, key, typical, take);
-	}
-
-	/** Puts part p (group g, key, tie) on the list if it belongs among the best `take`. */
-	private place(p: number, g: number, key: number, tie: number, take: number): void {
 		if (this.size < take) {
 			const at = this.size++;
-			this.set(at, p, g, key, tie);
+			this.set(at, p, g, key, typical);
 			this.siftUp(at);
-		} else if (this.size > 0 && this.before(g, key, tie, p, 0)) {
-			this.set(0, p, g, key, tie);
+		} else if (this.size > 0 && this.before(g, key, typical, p, 0)) {
+			// (A list of none is offered parts by `listSingles`: the heap stays empty.)
+			this.set(0, p, g, key, typical);
 			this.siftDown(0);
 		}
 	}

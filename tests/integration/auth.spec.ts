@@ -5,7 +5,7 @@ import { promisify } from 'node:util';
 import { and, eq } from 'drizzle-orm';
 import { describe, expect, test } from 'vitest';
 import { db } from '$lib/server/db';
-import { auditLog, sessions, userRoles } from '$lib/server/db/schema';
+import { auditLog, sessions, userRoles, users } from '$lib/server/db/schema';
 import * as people from '$lib/server/people';
 import * as tokens from '$lib/server/tokens';
 import { APP_URL, api, browse, mailbox, unique } from './helpers';
@@ -87,6 +87,26 @@ describe('sign-in by e-mail link', () => {
 	test('a cross-site form post is refused by the origin check', async () => {
 		const res = await browse('/signin', { form: { email: 'designer@demo.test' }, origin: 'http://evil.test' });
 		expect(res.status).toBe(403);
+	});
+
+	test('a session cookie is refused once its session has expired, and while its person is deactivated', async () => {
+		const person = await newPerson();
+		const live = unique('s');
+		const expired = unique('s');
+		await db.insert(sessions).values([
+			{ sessionToken: live, userId: person.id, expires: new Date(Date.now() + 60_000) },
+			{ sessionToken: expired, userId: person.id, expires: new Date(Date.now() - 1_000) }
+		]);
+		const home = (token: string) => fetch(`${APP_URL}/`, { headers: { cookie: `authjs.session-token=${token}` }, redirect: 'manual' });
+		expect((await home(live)).status).toBe(200);
+		const refused = await home(expired);
+		expect(refused.status).toBe(303);
+		expect(refused.headers.get('location')).toMatch(/^\/signin\?next=/);
+
+		await db.update(users).set({ deactivatedAt: new Date() }).where(eq(users.id, person.id));
+		expect((await home(live)).status).toBe(303);
+		await db.update(users).set({ deactivatedAt: null }).where(eq(users.id, person.id));
+		expect((await home(live)).status).toBe(200);
 	});
 
 	test('signing out ends the session in the database', async () => {

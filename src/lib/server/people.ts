@@ -52,13 +52,17 @@ export async function findById(id: string, tx: DbOrTx = db): Promise<Person | nu
 	return row ? toPerson(row, (row.roles ?? []).filter(isRole)) : null;
 }
 
+/** Runs on every page a browser asks for: built once and prepared, like the token lookup below. */
+const bySessionToken = db
+	.select(personColumns)
+	.from(sessions)
+	.innerJoin(users, eq(users.id, sessions.userId))
+	.where(and(eq(sessions.sessionToken, sql.placeholder('token')), gt(sessions.expires, sql`now()`), isNull(users.deactivatedAt)))
+	.prepare('people_by_session_token');
+
 /** The person behind a browser session cookie, or null when absent, expired or deactivated. */
 export async function findBySessionToken(token: string): Promise<Person | null> {
-	const [row] = await db
-		.select(personColumns)
-		.from(sessions)
-		.innerJoin(users, eq(users.id, sessions.userId))
-		.where(and(eq(sessions.sessionToken, token), gt(sessions.expires, new Date()), isNull(users.deactivatedAt)));
+	const [row] = await bySessionToken.execute({ token });
 	return row ? toPerson(row, (row.roles ?? []).filter(isRole)) : null;
 }
 
